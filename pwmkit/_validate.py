@@ -1,0 +1,115 @@
+"""Conversion and checking of inputs at the public edge (internal helper).
+
+Every public model function funnels its numeric arguments through
+:func:`quantity`, so that engineering strings, floats and numpy arrays are
+accepted uniformly and bad input becomes a :class:`~pwmkit.errors.DesignError`
+that names the parameter, the value and the allowed range.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+
+from .errors import DesignError
+
+__all__ = ["quantity", "scalar", "is_scalar_input"]
+
+
+def _describe(value: Any) -> str:
+    if isinstance(value, np.ndarray):
+        return f"array of shape {value.shape}"
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def quantity(
+    value: Any,
+    name: str,
+    *,
+    unit: str = "",
+    minimum: float | None = None,
+    maximum: float | None = None,
+    min_inclusive: bool = True,
+    max_inclusive: bool = True,
+) -> float | np.ndarray:
+    """Turn a float, an engineering string or an array into float(s) and check the range.
+
+    Parameters
+    ----------
+    value : float, str or array_like
+        The input. Strings go through :func:`pwmkit.values.parse_value`.
+    name : str
+        Parameter name used in error messages.
+    unit : str
+        Unit symbol used in error messages.
+    minimum, maximum : float, optional
+        Allowed range; ``min_inclusive``/``max_inclusive`` choose the bounds' kind.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        A Python float for scalar input, a float64 array otherwise.
+
+    Raises
+    ------
+    DesignError
+        Text that does not parse, non-finite numbers, or values out of range.
+    """
+    if isinstance(value, bool) or value is None:
+        raise DesignError(f"{name}: {_describe(value)} is not a number; give a value in {unit or 'SI units'}")
+    if isinstance(value, str):
+        from .values import parse_value
+
+        try:
+            arr: Any = parse_value(value)
+        except DesignError as exc:
+            raise DesignError(f"{name}: {exc}") from None
+    elif isinstance(value, (int, float, np.integer, np.floating)):
+        arr = float(value)
+    else:
+        try:
+            if isinstance(value, (list, tuple)) and any(isinstance(v, str) for v in value):
+                from .values import parse_value
+
+                value = [parse_value(v) if isinstance(v, str) else v for v in value]
+            arr = np.asarray(value, dtype=float)
+        except (TypeError, ValueError) as exc:
+            raise DesignError(f"{name}: {_describe(value)} is not a number or array of numbers ({exc})") from None
+        if arr.ndim == 0:
+            arr = float(arr)
+    bad_finite = ~np.isfinite(arr)
+    if np.any(bad_finite):
+        first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(bad_finite).ravel())])
+        raise DesignError(f"{name}: {first!r} is not a finite number; give a finite value in {unit or 'SI units'}")
+    u = f" {unit}" if unit else ""
+    if minimum is not None:
+        low = arr < minimum if min_inclusive else arr <= minimum
+        if np.any(low):
+            first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(low).ravel())])
+            rel = ">=" if min_inclusive else ">"
+            raise DesignError(f"{name}: {first:g}{u} is out of range; allowed {name} {rel} {minimum:g}{u}")
+    if maximum is not None:
+        high = arr > maximum if max_inclusive else arr >= maximum
+        if np.any(high):
+            first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(high).ravel())])
+            rel = "<=" if max_inclusive else "<"
+            raise DesignError(f"{name}: {first:g}{u} is out of range; allowed {name} {rel} {maximum:g}{u}")
+    return arr
+
+
+def is_scalar_input(*values: Any) -> bool:
+    """True when every value is a Python/numpy scalar (so results should be floats)."""
+    return all(np.ndim(v) == 0 for v in values)
+
+
+def scalar(x: Any) -> Any:
+    """Return a Python float for 0-d input, else the array unchanged."""
+    if np.ndim(x) == 0:
+        v = float(x)
+        if not math.isfinite(v):  # pragma: no cover - guarded by callers
+            raise DesignError(f"internal: non-finite result {v!r}")
+        return v
+    return x
