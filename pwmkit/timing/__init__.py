@@ -1,0 +1,43 @@
+"""Exact timing of 555-type astable PWM generators.
+
+- :func:`astable` — closed-form timing (sympy-derived, lambdified, vectorised);
+- :func:`astable_ideal` — the textbook ``ln 2`` forms, for comparison;
+- :func:`expressions` — the derived sympy expressions (LaTeX/code export);
+- :func:`diode_law_timing` — an independent model with Shockley-law diodes;
+- :func:`waveform` — capacitor and output waveforms for plots.
+
+Topology semantics are in :mod:`pwmkit.timing.paths`.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from .astable import AstableResult, astable, astable_ideal, control_voltage_from_divider, default_vd
+from .paths import TOPOLOGIES, Paths, paths
+
+__all__ = [
+    "TOPOLOGIES", "AstableResult", "Paths", "astable", "astable_ideal", "control_voltage_from_divider",
+    "default_vd", "diode_law_timing", "expressions", "paths", "waveform",
+]
+
+
+def expressions(topology: str, discharge: str = "general", control: str = "external", ideal: bool = False) -> Any:
+    """Derived sympy expressions of a topology; see :func:`pwmkit.timing.symbolic.expressions`."""
+    from .symbolic import expressions as _expressions
+
+    return _expressions(topology, discharge, control, ideal)  # type: ignore[arg-type]
+
+
+def diode_law_timing(*args: Any, **kwargs: Any) -> Any:
+    """Diode-law timing model; see :func:`pwmkit.timing.diode_law.diode_law_timing`."""
+    from .diode_law import diode_law_timing as _f
+
+    return _f(*args, **kwargs)
+
+
+def waveform(*args: Any, **kwargs: Any) -> Any:
+    """Sampled waveforms; see :func:`pwmkit.timing.waveform.waveform`."""
+    from .waveform import waveform as _f
+
+    return _f(*args, **kwargs)

@@ -1,0 +1,347 @@
+"""Numeric evaluation of the exact astable timing.
+
+:func:`astable` evaluates the sympy-derived closed forms
+(:mod:`pwmkit.timing.symbolic`) through a cached :func:`sympy.lambdify`
+function, broadcasting numpy arrays. Before evaluating, it checks that the
+design oscillates: the charge asymptote must lie above the upper threshold
+and the discharge asymptote below the lower one; otherwise a
+:class:`~pwmkit.errors.DesignError` says why, in volts.
+"""
+
+from __future__ import annotations
+
+import functools
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from .._validate import quantity
+from ..errors import DesignError
+from ..parts.timers import TimerFamily, get_timer
+from .paths import TOPOLOGIES, paths
+
+__all__ = ["AstableResult", "astable", "astable_ideal", "default_vd", "control_voltage_from_divider"]
+
+
+@dataclass(frozen=True)
+class AstableResult:
+    """Timing of a 555-type astable.
+
+    Attributes
+    ----------
+    topology : str
+    timer : str
+        Timer family name.
+    t_high : output-high time (capacitor charging) [s]
+    t_low : output-low time (capacitor discharging) [s]
+    period : t_high + t_low [s]
+    frequency : 1 / period [Hz]
+    duty : t_high / period, fraction 0–1 [1]
+    v_upper, v_lower : comparator thresholds [V]
+    v_charge, v_discharge : asymptotes of the charge and discharge [V]
+    r_charge, r_discharge : resistance of the charge and discharge paths [Ω]
+    c : timing capacitance [F]
+    vcc : supply [V]
+    """
+
+    topology: str
+    timer: str
+    t_high: Any
+    t_low: Any
+    period: Any
+    frequency: Any
+    duty: Any
+    v_upper: Any
+    v_lower: Any
+    v_charge: Any
+    v_discharge: Any
+    r_charge: Any
+    r_discharge: Any
+    c: Any
+    vcc: Any
+
+    def __repr__(self) -> str:
+        if np.ndim(self.frequency) == 0:
+            from ..values import format_value
+
+            return (f"AstableResult({self.topology}, {self.timer}: f={format_value(self.frequency, 'Hz', 5)}, "
+                    f"duty={100 * self.duty:.3f} %, t_high={format_value(self.t_high, 's', 5)}, "
+                    f"t_low={format_value(self.t_low, 's', 5)})")
+        return f"AstableResult({self.topology}, {self.timer}: arrays of shape {np.shape(self.frequency)})"
+
+    def _repr_html_(self) -> str:
+        from ..values import format_value
+
+        if np.ndim(self.frequency) != 0:
+            return f"<p>AstableResult over arrays of shape {np.shape(self.frequency)}</p>"
+        rows = [
+            ("frequency", format_value(self.frequency, "Hz", 5)),
+            ("duty", f"{100 * self.duty:.3f} %"),
+            ("t_high (charge)", format_value(self.t_high, "s", 5)),
+            ("t_low (discharge)", format_value(self.t_low, "s", 5)),
+            ("period", format_value(self.period, "s", 5)),
+            ("upper / lower threshold", f"{format_value(self.v_upper, 'V', 4)} / {format_value(self.v_lower, 'V', 4)}"),
+            ("charge toward", f"{format_value(self.v_charge, 'V', 4)} through {format_value(self.r_charge, 'Ω', 4)}"),
+            ("discharge toward",
+             f"{format_value(self.v_discharge, 'V', 4)} through {format_value(self.r_discharge, 'Ω', 4)}"),
+        ]
+        body = "".join(f"<tr><th style='text-align:left'>{k}</th><td>{v}</td></tr>" for k, v in rows)
+        return (f"<table class='pwmkit-result'><caption>astable timing — {self.topology}, {self.timer} timer"
+                f"</caption>{body}</table>")
+
+
+@functools.lru_cache(maxsize=8)
+def _signal_diode_drop(current: float) -> float:
+    from ..parts.diodes import SMALL_SIGNAL_SILICON
+
+    return float(SMALL_SIGNAL_SILICON.vf(current))
+
+
+#: Current at which the default steering-diode drop is evaluated [A].
+DEFAULT_VD_CURRENT = 1e-3
+
+
+def default_vd() -> float:
+    """Default steering-diode drop [V]: the generic small-signal silicon diode at 1 mA.
+
+    Computed from the diode family's Shockley model
+    (:data:`pwmkit.parts.diodes.SMALL_SIGNAL_SILICON`), about 0.61 V. Timing
+    currents of a few hundred µA to a few mA are typical (common practice);
+    :func:`pwmkit.timing.diode_law_timing` evaluates the drop at the actual
+    current instead.
+    """
+    return _signal_diode_drop(DEFAULT_VD_CURRENT)
+
+
+def control_voltage_from_divider(vcc: Any, r_ext: Any, timer: str | TimerFamily = "bipolar") -> Any:
+    """Control-pin voltage when a resistor ``r_ext`` loads the pin to ground [V].
+
+    The internal divider is three equal resistors ``r`` (bipolar family:
+    5 kΩ, from memory). The pin sits at ``2·vcc/3`` behind ``r ∥ 2r``; with
+    ``r_ext`` to ground:
+
+    .. math:: V_{ctl} = V_{cc}\\,\\frac{2r \\parallel R_{ext}}{r + 2r \\parallel R_{ext}}
+
+    Parameters
+    ----------
+    vcc : supply [V]
+    r_ext : resistor from the control pin to ground [Ω]
+    timer : timer family (needs a known divider value)
+
+    Examples
+    --------
+    >>> round(control_voltage_from_divider(12.0, 10e3), 6)
+    6.0
+    """
+    fam = get_timer(timer)
+    if fam.r_cv_divider <= 0:
+        raise DesignError(f"timer: the {fam.description} has no known internal divider value; "
+                          "give the control voltage directly (vctl)")
+    vcc = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
+    r_ext = quantity(r_ext, "r_ext", unit="Ω", minimum=0.0, min_inclusive=False)
+    r = fam.r_cv_divider
+    lower = 2 * r * r_ext / (2 * r + r_ext)
+    v = vcc * lower / (r + lower)
+    return float(v) if np.ndim(v) == 0 else v
+
+
+def _first_bad(mask: Any, *arrays: Any) -> list[float]:
+    idx = int(np.argmax(np.broadcast_to(mask, np.broadcast(*arrays, mask).shape).ravel()))
+    return [float(np.broadcast_to(a, np.broadcast(*arrays, mask).shape).ravel()[idx]) for a in arrays]
+
+
+def _inputs(topology: str, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any, wiper: Any, vd: Any, vsat: Any,
+            r_on: Any, vctl: Any, timer: str | TimerFamily) -> dict[str, Any]:
+    if not isinstance(topology, str) or topology not in TOPOLOGIES:
+        raise DesignError(f"topology: {topology!r} is not known; allowed: {', '.join(TOPOLOGIES)}")
+    fam = get_timer(timer)
+    q: dict[str, Any] = {"timer": fam}
+    q["ra"] = quantity(ra, "ra", unit="Ω", minimum=0.0, min_inclusive=False)
+    q["rb"] = quantity(rb, "rb", unit="Ω", minimum=0.0)
+    q["c"] = quantity(c, "c", unit="F", minimum=0.0, min_inclusive=False)
+    q["vcc"] = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
+    if topology == "pot":
+        if pot is None or wiper is None:
+            raise DesignError("pot, wiper: the 'pot' topology needs both the potentiometer value (pot, Ω) "
+                              "and the wiper position (wiper, 0–1)")
+        q["pot"] = quantity(pot, "pot", unit="Ω", minimum=0.0, min_inclusive=False)
+        q["wiper"] = quantity(wiper, "wiper", minimum=0.0, maximum=1.0)
+    else:
+        if pot is not None or wiper is not None:
+            raise DesignError(f"pot, wiper: only the 'pot' topology uses a potentiometer; got pot={pot!r}, "
+                              f"wiper={wiper!r} with topology {topology!r}")
+        q["pot"], q["wiper"] = 0.0, 0.0
+    if topology == "classic":
+        q["vd"] = 0.0 if vd is None else quantity(vd, "vd", unit="V", minimum=0.0)
+    else:
+        q["vd"] = default_vd() if vd is None else quantity(vd, "vd", unit="V", minimum=0.0)
+    q["vsat"] = fam.vsat if vsat is None else quantity(vsat, "vsat", unit="V", minimum=0.0)
+    q["r_on"] = fam.r_discharge_on if r_on is None else quantity(r_on, "r_on", unit="Ω", minimum=0.0)
+    if vctl is None:
+        q["vctl"] = 2.0 * q["vcc"] / 3.0
+    else:
+        q["vctl"] = quantity(vctl, "vctl", unit="V", minimum=0.0, min_inclusive=False)
+    return q
+
+
+def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
+    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+    bad = np.logical_not(p.v_charge > v_upper)
+    if np.any(bad):
+        vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
+        what = f"supply {vcc:.4g} V" if topology == "classic" else f"supply {vcc:.4g} V minus diode drop {vd:.4g} V"
+        raise DesignError(
+            f"vcc: {what} = {vch:.4g} V cannot reach the upper threshold {vu:.4g} V; the capacitor stalls "
+            f"below it and the output latches high. Raise vcc or lower vctl"
+            + ("" if topology == "classic" else " (or use a lower-drop diode)")
+        )
+    bad = np.logical_not(p.v_discharge < v_lower)
+    if np.any(bad):
+        vdis, vl = _first_bad(bad, p.v_discharge, v_lower)
+        raise DesignError(
+            f"vcc: the discharge path heads for {vdis:.4g} V (switch saturation/on-resistance"
+            + ("" if topology in ("classic", "bypass") else " plus diode drop")
+            + f"), which cannot fall to the lower threshold {vl:.4g} V; the output latches low. "
+            "Raise vcc or vctl, or lower the discharge-path drops"
+        )
+    bad = np.logical_not(p.r_discharge > 0)
+    if np.any(bad):
+        raise DesignError(
+            "rb: the discharge path resistance is 0 Ω (rb = 0 with the wiper at the discharge end and an "
+            "ideal discharge switch): the discharge pin would short the capacitor. Add an end resistor rb > 0"
+        )
+
+
+def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = None, wiper: Any = None,
+            vd: Any = None, vsat: Any = None, vctl: Any = None, timer: str | TimerFamily = "bipolar",
+            r_on: Any = None) -> AstableResult:
+    """Exact steady-state timing of a 555-type astable.
+
+    The half-periods come from the RC threshold-crossing law solved by sympy
+    (:func:`pwmkit.timing.symbolic.expressions`):
+
+    .. math::
+        t_{high} = R_{ch} C \\ln\\frac{V_{ch} - V_L}{V_{ch} - V_H},\\qquad
+        t_{low} = R_{dis} C \\ln\\frac{V_H - V_{dis}}{V_L - V_{dis}}
+
+    with ``V_H = vctl``, ``V_L = vctl/2`` and each topology's path
+    resistance and asymptote (see :mod:`pwmkit.timing.paths`).
+
+    Parameters
+    ----------
+    topology : {"classic", "bypass", "steered", "pot"}
+        Timing network; see :mod:`pwmkit.timing.paths`.
+    ra : float, str or array_like
+        Charge resistor (R1 of the pot topology), > 0 [Ω].
+    rb : float, str or array_like
+        Discharge resistor (end resistor of the pot topology), ≥ 0 [Ω].
+    c : float, str or array_like
+        Timing capacitor, > 0 [F].
+    vcc : float, str or array_like
+        Supply voltage, > 0 [V].
+    pot : float, str or array_like, optional
+        Potentiometer end-to-end resistance, "pot" topology only [Ω].
+    wiper : float or array_like, optional
+        Wiper position 0–1 (1 = all of the pot in the charge path), "pot" only [1].
+    vd : float, str or array_like, optional
+        Steering-diode drop [V]; default :func:`default_vd` (small-signal
+        silicon diode at 1 mA); ignored by "classic".
+    vsat : float, str or array_like, optional
+        Discharge saturation voltage [V]; default from the timer family.
+    vctl : float, str or array_like, optional
+        Control-pin voltage = upper threshold [V]; default ``2·vcc/3``.
+    timer : {"bipolar", "cmos"} or TimerFamily
+        Timer family; sets the ``vsat`` and ``r_on`` defaults.
+    r_on : float, str or array_like, optional
+        Discharge switch on-resistance [Ω]; default from the timer family.
+
+    Returns
+    -------
+    AstableResult
+        Floats for scalar input, arrays (broadcast) for array input.
+
+    Raises
+    ------
+    DesignError
+        Bad input, or a design that does not oscillate (the message says why).
+
+    Notes
+    -----
+    Steady state only (the first high time after power-up is longer: the
+    capacitor starts from 0 V, see :func:`pwmkit.timing.waveform`).
+    Comparator and flip-flop delays, threshold bias currents and capacitor
+    leakage are not included; the design-rule checks estimate them.
+
+    Examples
+    --------
+    >>> r = astable("classic", ra="10k", rb="10k", c="100n", vcc=12, vsat=0)
+    >>> round(r.frequency, 3), round(r.duty, 5)
+    (480.898, 0.66667)
+    >>> r = astable("bypass", ra="10k", rb="10k", c="100n", vcc=12, vd=0.65, vsat=0.1)
+    >>> round(r.t_high * 1e3, 6), round(r.frequency, 2)
+    (0.78574, 670.41)
+
+    References
+    ----------
+    .. [1] C. K. Alexander, M. N. O. Sadiku, *Fundamentals of Electric
+       Circuits*, 6th ed., ch. 7 (RC step response).
+    .. [2] Data sheets of the bipolar and CMOS 555-type timer families,
+       astable operation (typical published datasheet values, generic).
+    """
+    from .symbolic import numeric_function
+
+    q = _inputs(topology, ra, rb, c, vcc, pot, wiper, vd, vsat, r_on, vctl, timer)
+    p = paths(topology, ra=q["ra"], rb=q["rb"], pot=q["pot"], wiper=q["wiper"], vcc=q["vcc"], vd=q["vd"],
+              vsat=q["vsat"], r_on=q["r_on"])
+    _check_oscillates(topology, q, p)
+    r_on0 = np.ndim(q["r_on"]) == 0 and q["r_on"] == 0
+    vsat0 = np.ndim(q["vsat"]) == 0 and q["vsat"] == 0
+    fn = numeric_function(topology, "saturation" if r_on0 else "resistance" if vsat0 else "general")
+    with np.errstate(all="ignore"):
+        t_high, t_low = fn(q["ra"], q["rb"], q["pot"], q["wiper"], q["c"], q["vcc"], q["vd"], q["vsat"],
+                           q["r_on"], q["vctl"])
+        t_high = np.asarray(t_high, dtype=float)
+        t_low = np.asarray(t_low, dtype=float)
+        shape = np.broadcast(t_high, t_low, q["c"], q["ra"], q["vcc"]).shape
+        if t_high.shape != shape:
+            t_high = np.array(np.broadcast_to(t_high, shape))
+        if t_low.shape != shape:
+            t_low = np.array(np.broadcast_to(t_low, shape))
+        period = t_high + t_low
+        frequency = 1.0 / period
+        duty = t_high / period
+    if not (np.all(np.isfinite(frequency)) and np.all(np.isfinite(duty)) and np.all(period > 0)):
+        raise DesignError("timing: the design gives a non-finite period (component values too extreme for "
+                          "double precision); check the orders of magnitude of ra, rb, pot and c")
+    fam = q["timer"]
+
+    def out(x: Any) -> Any:
+        x = np.asarray(x, dtype=float)
+        if x.ndim == 0 and not shape:
+            return float(x)
+        return x if x.shape == shape and x.flags.writeable else np.array(np.broadcast_to(x, shape))
+
+    return AstableResult(
+        topology=topology, timer=fam.name, t_high=out(t_high), t_low=out(t_low), period=out(period),
+        frequency=out(frequency), duty=out(duty), v_upper=out(q["vctl"]), v_lower=out(q["vctl"] / 2.0),
+        v_charge=out(p.v_charge), v_discharge=out(p.v_discharge), r_charge=out(p.r_charge),
+        r_discharge=out(p.r_discharge), c=out(q["c"]), vcc=out(q["vcc"]),
+    )
+
+
+def astable_ideal(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any = 12.0, pot: Any = None,
+                  wiper: Any = None) -> AstableResult:
+    """The textbook timing: ideal diodes and switch, internal divider (the ``ln 2 ≈ 0.693`` forms).
+
+    Same derivation as :func:`astable` with ``vd = vsat = r_on = 0`` and
+    ``vctl = 2·vcc/3``; the supply then cancels.
+
+    Examples
+    --------
+    >>> r = astable_ideal("classic", ra=10e3, rb=10e3, c=100e-9)
+    >>> round(r.t_high / ((10e3 + 10e3) * 100e-9), 6)   # ln 2 (common practice: 0.693)
+    0.693147
+    """
+    return astable(topology, ra=ra, rb=rb, c=c, vcc=vcc, pot=pot, wiper=wiper, vd=0.0, vsat=0.0, r_on=0.0,
+                   vctl=None)

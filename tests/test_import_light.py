@@ -1,0 +1,23 @@
+"""`import pwmkit` must stay light (STYLE.md; scikit-rf's test of the same kind)."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+
+
+def test_import_pwmkit_pulls_in_no_heavy_modules() -> None:
+    code = (
+        "import sys, pwmkit, pwmkit.timing, pwmkit.loads, pwmkit.eseries, pwmkit.values;"
+        "heavy = [m for m in ('sympy', 'ipywidgets', 'bokeh', 'scipy', 'matplotlib', 'schemdraw', 'IPython')"
+        " if m in sys.modules];"
+        "print(','.join(heavy))"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == ""
+
+
+def test_no_output_notebook_side_effect_on_import() -> None:
+    code = "import pwmkit, sys; print('bokeh.io' in sys.modules)"
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "False"
