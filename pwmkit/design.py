@@ -1,0 +1,408 @@
+"""Design objects: one PWM driver described as data (design layer).
+
+A :class:`Design` combines the timing network, the timer family, the output
+stage (low-side MOSFET, freewheel diode) and the load (an LED string or a
+brushed DC motor/fan), plus the requirements it must meet and the ambient
+conditions. It holds no physics: methods call the model functions
+(:func:`pwmkit.timing.astable` …). Values may be given as engineering strings
+at construction ("4k7", "100n"); they are stored as floats in SI units.
+
+:func:`demo_designs` returns the project's demo scenario — a 12 V greenhouse
+propagator with an LED grow-bar dimmer and a ventilation-fan speed control
+(invented values, for demonstration only).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass, field
+from typing import Any, Literal
+
+from ._validate import quantity
+from .errors import DesignError
+
+__all__ = ["Requirements", "Timing", "LedLoad", "MotorLoad", "Switch", "Freewheel", "Design", "demo_designs"]
+
+_TOPOLOGIES = ("classic", "bypass", "steered", "pot")
+_DIELECTRICS = ("c0g", "x7r", "film", "electrolytic")
+
+
+def _num(obj: Any, name: str, *, unit: str = "", optional: bool = False, **limits: Any) -> None:
+    value = getattr(obj, name)
+    if value is None:
+        if optional:
+            return
+        raise DesignError(f"{type(obj).__name__.lower()}.{name}: a value is required ({unit or 'number'})")
+    try:
+        v = quantity(value, f"{type(obj).__name__.lower()}.{name}", unit=unit, **limits)
+    except DesignError:
+        raise
+    if not isinstance(v, float):
+        raise DesignError(f"{type(obj).__name__.lower()}.{name}: expected one number, got an array")
+    object.__setattr__(obj, name, v)
+
+
+def _choice(obj: Any, name: str, allowed: tuple[str, ...]) -> None:
+    value = getattr(obj, name)
+    if not isinstance(value, str) or value.strip().lower() not in allowed:
+        raise DesignError(f"{type(obj).__name__.lower()}.{name}: {value!r} is not allowed; "
+                          f"allowed: {', '.join(allowed)}")
+    object.__setattr__(obj, name, value.strip().lower())
+
+
+@dataclass(frozen=True)
+class Requirements:
+    """What the driver must achieve.
+
+    Attributes
+    ----------
+    frequency : target PWM frequency [Hz] (None = no target)
+    frequency_tolerance : allowed relative deviation of the frequency [1]
+    duty : target duty (fixed-duty topologies) [1]
+    duty_min, duty_max : duty range the control must reach (pot topology) or
+        the window a fixed duty must stay in [1]
+    flicker : required IEEE Std 1789-2015 region for LED loads:
+        "no-effect", "low-risk" or None
+    """
+
+    frequency: Any = None
+    frequency_tolerance: Any = 0.1
+    duty: Any = None
+    duty_min: Any = None
+    duty_max: Any = None
+    flicker: str | None = None
+
+    def __post_init__(self) -> None:
+        _num(self, "frequency", unit="Hz", optional=True, minimum=0.0, min_inclusive=False)
+        _num(self, "frequency_tolerance", minimum=0.0, maximum=1.0)
+        for name in ("duty", "duty_min", "duty_max"):
+            _num(self, name, optional=True, minimum=0.0, maximum=1.0)
+        if self.duty_min is not None and self.duty_max is not None and self.duty_min > self.duty_max:
+            raise DesignError(f"requirements.duty_min: {self.duty_min} is above duty_max {self.duty_max}; "
+                              "allowed duty_min <= duty_max")
+        if self.flicker is not None:
+            _choice(self, "flicker", ("no-effect", "low-risk"))
+
+
+@dataclass(frozen=True)
+class Timing:
+    """The astable timing network and timer family.
+
+    Attributes
+    ----------
+    topology : "classic", "bypass", "steered" or "pot"
+    ra, rb : resistors [Ω] (ra = R1 of the pot topology, rb = its end resistor)
+    c : timing capacitor [F]
+    pot : potentiometer end-to-end [Ω] ("pot" only); wiper : position 0–1
+    vd : steering-diode drop [V] (None = default small-signal silicon diode)
+    vsat, r_on : discharge switch overrides [V], [Ω] (None = timer family values)
+    vctl : control-pin voltage [V] (None = internal divider)
+    r_cv : resistor from the control pin to ground [Ω] (None = none)
+    cv_bypass : control-pin bypass capacitor [F] (None = none fitted)
+    timer : "bipolar" or "cmos"
+    diode : steering-diode family name (see :mod:`pwmkit.parts.diodes`)
+    c_dielectric : timing-capacitor dielectric ("c0g", "x7r", "film", "electrolytic")
+    r_series, c_series : preferred-value series the parts come from
+    r_tolerance, c_tolerance, pot_tolerance : relative tolerances [1]
+    """
+
+    topology: str = "steered"
+    ra: Any = 10e3
+    rb: Any = 10e3
+    c: Any = 100e-9
+    pot: Any = None
+    wiper: Any = None
+    vd: Any = None
+    vsat: Any = None
+    r_on: Any = None
+    vctl: Any = None
+    r_cv: Any = None
+    cv_bypass: Any = 10e-9
+    timer: str = "bipolar"
+    diode: str = "small-signal-silicon"
+    c_dielectric: str = "film"
+    r_series: str = "E24"
+    c_series: str = "E12"
+    r_tolerance: Any = 0.05
+    c_tolerance: Any = 0.05
+    pot_tolerance: Any = 0.2
+
+    def __post_init__(self) -> None:
+        _choice(self, "topology", _TOPOLOGIES)
+        _choice(self, "timer", ("bipolar", "cmos"))
+        _choice(self, "c_dielectric", _DIELECTRICS)
+        _num(self, "ra", unit="Ω", minimum=0.0, min_inclusive=False)
+        _num(self, "rb", unit="Ω", minimum=0.0)
+        _num(self, "c", unit="F", minimum=0.0, min_inclusive=False)
+        if self.topology == "pot":
+            _num(self, "pot", unit="Ω", minimum=0.0, min_inclusive=False)
+            _num(self, "wiper", minimum=0.0, maximum=1.0)
+        elif self.pot is not None or self.wiper is not None:
+            raise DesignError(f"timing.pot: only the 'pot' topology uses a potentiometer (topology is "
+                              f"{self.topology!r}); remove pot and wiper")
+        _num(self, "vd", unit="V", optional=True, minimum=0.0, maximum=5.0)
+        _num(self, "vsat", unit="V", optional=True, minimum=0.0, maximum=5.0)
+        _num(self, "r_on", unit="Ω", optional=True, minimum=0.0)
+        _num(self, "vctl", unit="V", optional=True, minimum=0.0, min_inclusive=False)
+        _num(self, "r_cv", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
+        _num(self, "cv_bypass", unit="F", optional=True, minimum=0.0, min_inclusive=False)
+        if self.vctl is not None and self.r_cv is not None:
+            raise DesignError("timing.vctl: give either a control voltage (vctl) or a control-pin resistor "
+                              "(r_cv), not both")
+        from . import eseries
+
+        for name in ("r_series", "c_series"):
+            value = getattr(self, name)
+            if not isinstance(value, str) or value.upper() not in eseries.SERIES:
+                raise DesignError(f"timing.{name}: {value!r} is not allowed; allowed: {', '.join(eseries.SERIES)}")
+            object.__setattr__(self, name, value.upper())
+        for name in ("r_tolerance", "c_tolerance", "pot_tolerance"):
+            _num(self, name, minimum=0.0, maximum=0.9)
+        if not isinstance(self.diode, str) or not self.diode:
+            raise DesignError(f"timing.diode: {self.diode!r} is not a diode family name")
+
+    def astable_kwargs(self, vcc: float) -> dict[str, Any]:
+        """Keyword arguments for :func:`pwmkit.timing.astable` at supply ``vcc``."""
+        kw: dict[str, Any] = dict(ra=self.ra, rb=self.rb, c=self.c, vcc=vcc, timer=self.timer)
+        if self.topology == "pot":
+            kw.update(pot=self.pot, wiper=self.wiper)
+        for name in ("vd", "vsat", "r_on"):
+            if getattr(self, name) is not None:
+                kw[name] = getattr(self, name)
+        if self.vctl is not None:
+            kw["vctl"] = self.vctl
+        elif self.r_cv is not None:
+            from .timing import control_voltage_from_divider
+
+            kw["vctl"] = control_voltage_from_divider(vcc, self.r_cv, self.timer)
+        return kw
+
+
+@dataclass(frozen=True)
+class LedLoad:
+    """LED strings switched by the low-side MOSFET.
+
+    Attributes
+    ----------
+    n_series : LEDs in each string; n_parallel : strings
+    vf : forward voltage per LED at the operating current [V]
+    vf_spread : ± spread of vf per LED [V]
+    r_series : series resistor per string [Ω]
+    colour : colour name (see :data:`pwmkit.loads.led.TYPICAL_VF`)
+    """
+
+    n_series: Any = 3
+    n_parallel: Any = 1
+    vf: Any = 3.1
+    vf_spread: Any = 0.2
+    r_series: Any = 130.0
+    colour: str = "white"
+    kind: Literal["led"] = field(default="led", init=False)
+
+    def __post_init__(self) -> None:
+        for name in ("n_series", "n_parallel"):
+            v = getattr(self, name)
+            if isinstance(v, bool) or not isinstance(v, int) or not 1 <= v <= 1000:
+                raise DesignError(f"led.{name}: {v!r} is not allowed; allowed whole numbers 1–1000")
+        _num(self, "vf", unit="V", minimum=0.5, maximum=10.0)
+        _num(self, "vf_spread", unit="V", minimum=0.0, maximum=2.0)
+        _num(self, "r_series", unit="Ω", minimum=0.0, min_inclusive=False)
+
+
+@dataclass(frozen=True)
+class MotorLoad:
+    """Brushed DC motor (or fan) switched by the low-side MOSFET.
+
+    Attributes
+    ----------
+    r : armature resistance [Ω]; l : armature inductance [H]
+    ke : back-EMF constant [V·s/rad] (torque constant kt = ke in SI)
+    b : viscous friction [N·m·s/rad]; t_load : constant load torque [N·m]
+    j : rotor + load inertia [kg·m²]
+    """
+
+    r: Any = 1.5
+    l: Any = 1e-3  # noqa: E741 - the trade's symbol for inductance
+    ke: Any = 0.01
+    b: Any = 1e-6
+    t_load: Any = 0.0
+    j: Any = 1e-5
+    kind: Literal["motor"] = field(default="motor", init=False)
+
+    def __post_init__(self) -> None:
+        _num(self, "r", unit="Ω", minimum=0.0, min_inclusive=False)
+        _num(self, "l", unit="H", minimum=0.0, min_inclusive=False)
+        _num(self, "ke", unit="V·s/rad", minimum=0.0, min_inclusive=False)
+        _num(self, "b", unit="N·m·s/rad", minimum=0.0)
+        _num(self, "t_load", unit="N·m", minimum=0.0)
+        _num(self, "j", unit="kg·m²", minimum=0.0, min_inclusive=False)
+
+
+@dataclass(frozen=True)
+class Switch:
+    """Low-side MOSFET and its gate resistor."""
+
+    mosfet: str = "logic-level-30v"
+    r_gate: Any = 10.0
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.mosfet, str) or not self.mosfet:
+            raise DesignError(f"switch.mosfet: {self.mosfet!r} is not a MOSFET family name")
+        _num(self, "r_gate", unit="Ω", minimum=0.0)
+
+
+@dataclass(frozen=True)
+class Freewheel:
+    """Freewheel diode across an inductive load, optionally with a Zener clamp."""
+
+    diode: str = "schottky-1a"
+    clamp: str = "diode"
+    v_zener: Any = None
+
+    def __post_init__(self) -> None:
+        _choice(self, "clamp", ("diode", "zener"))
+        if self.clamp == "zener":
+            _num(self, "v_zener", unit="V", minimum=1.0, maximum=200.0)
+        elif self.v_zener is not None:
+            raise DesignError("freewheel.v_zener: only used with clamp = 'zener'")
+
+
+@dataclass(frozen=True)
+class Design:
+    """A complete PWM driver: requirements, timing, output stage, load, ambient.
+
+    Attributes
+    ----------
+    name : short identifier
+    vcc : timer supply [V]
+    timing : Timing
+    load : LedLoad, MotorLoad or None
+    v_load : load supply [V] (None = same as vcc)
+    switch : Switch; freewheel : Freewheel
+    vcc_min, vcc_max : supply range for the spread analysis [V] (None = vcc)
+    t_ambient_c : nominal ambient [°C]; t_ambient_min_c, t_ambient_max_c : range [°C]
+    requirements : Requirements
+    notes : free text for the design record
+    """
+
+    name: str = "design"
+    vcc: Any = 12.0
+    timing: Timing = field(default_factory=Timing)
+    load: LedLoad | MotorLoad | None = None
+    v_load: Any = None
+    switch: Switch = field(default_factory=Switch)
+    freewheel: Freewheel = field(default_factory=Freewheel)
+    vcc_min: Any = None
+    vcc_max: Any = None
+    t_ambient_c: Any = 25.0
+    t_ambient_min_c: Any = 0.0
+    t_ambient_max_c: Any = 40.0
+    requirements: Requirements = field(default_factory=Requirements)
+    notes: str = ""
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.name, str) or not self.name.strip() or len(self.name) > 200:
+            raise DesignError(f"design.name: {self.name!r} is not allowed; give 1–200 characters")
+        _num(self, "vcc", unit="V", minimum=0.0, min_inclusive=False, maximum=100.0)
+        _num(self, "v_load", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
+        _num(self, "vcc_min", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
+        _num(self, "vcc_max", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
+        for name in ("t_ambient_c", "t_ambient_min_c", "t_ambient_max_c"):
+            _num(self, name, unit="°C", minimum=-60.0, maximum=150.0)
+        if not self.t_ambient_min_c <= self.t_ambient_c <= self.t_ambient_max_c:
+            raise DesignError(f"design.t_ambient_c: {self.t_ambient_c} °C lies outside the ambient range "
+                              f"{self.t_ambient_min_c}…{self.t_ambient_max_c} °C")
+        lo = self.vcc if self.vcc_min is None else self.vcc_min
+        hi = self.vcc if self.vcc_max is None else self.vcc_max
+        if not lo <= self.vcc <= hi:
+            raise DesignError(f"design.vcc: {self.vcc} V lies outside the supply range {lo}…{hi} V")
+        for name, cls in (("timing", Timing), ("switch", Switch), ("freewheel", Freewheel),
+                          ("requirements", Requirements)):
+            if not isinstance(getattr(self, name), cls):
+                raise DesignError(f"design.{name}: expected a {cls.__name__}, got {type(getattr(self, name)).__name__}")
+        if self.load is not None and not isinstance(self.load, (LedLoad, MotorLoad)):
+            raise DesignError(f"design.load: expected LedLoad, MotorLoad or None, got {type(self.load).__name__}")
+        if not isinstance(self.notes, str):
+            raise DesignError("design.notes: expected text")
+
+    # -- convenience -------------------------------------------------------------------------
+    @property
+    def load_supply(self) -> float:
+        """Load supply voltage [V]."""
+        return self.vcc if self.v_load is None else self.v_load
+
+    @property
+    def supply_range(self) -> tuple[float, float]:
+        """(minimum, maximum) timer supply [V]."""
+        return (self.vcc if self.vcc_min is None else self.vcc_min,
+                self.vcc if self.vcc_max is None else self.vcc_max)
+
+    def astable_kwargs(self) -> dict[str, Any]:
+        """Keyword arguments of :func:`pwmkit.timing.astable` for this design (without topology)."""
+        return self.timing.astable_kwargs(self.vcc)
+
+    def astable(self) -> Any:
+        """Timing at the nominal design point (:class:`pwmkit.timing.AstableResult`)."""
+        from .timing import astable
+
+        return astable(self.timing.topology, **self.astable_kwargs())
+
+    def replace(self, **changes: Any) -> Design:
+        """A copy with top-level fields changed (validated again)."""
+        return dataclasses.replace(self, **changes)
+
+    def with_timing(self, **changes: Any) -> Design:
+        """A copy with timing fields changed (validated again)."""
+        return dataclasses.replace(self, timing=dataclasses.replace(self.timing, **changes))
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain nested dict (JSON/TOML-ready; None values kept)."""
+        return dataclasses.asdict(self)
+
+
+def demo_designs() -> dict[str, Design]:
+    """The demo scenario: a 12 V greenhouse propagator (invented values, for demos only).
+
+    ``"grow-bar"``
+        LED grow-bar dimmer: pot-steered CMOS timer near 6 kHz (above the
+        IEEE 1789 no-effect corner for full on/off PWM), three strings of
+        three white LEDs with 130 Ω resistors.
+    ``"fan"``
+        Ventilation-fan speed control: pot-steered bipolar timer above the
+        audible band, small brushed DC fan motor with a Schottky freewheel
+        diode.
+    """
+    grow = Design(
+        name="grow-bar",
+        vcc=12.0,
+        vcc_min=11.4,
+        vcc_max=13.8,
+        timing=Timing(topology="pot", ra=1e3, rb=1e3, pot=100e3, wiper=0.5, c=2.2e-9, timer="cmos",
+                      c_dielectric="c0g", c_tolerance=0.05, r_tolerance=0.05, pot_tolerance=0.2),
+        load=LedLoad(n_series=3, n_parallel=3, vf=3.1, vf_spread=0.2, r_series=130.0, colour="white"),
+        switch=Switch(mosfet="logic-level-30v", r_gate=10.0),
+        freewheel=Freewheel(diode="schottky-1a"),
+        t_ambient_c=25.0,
+        t_ambient_min_c=5.0,
+        t_ambient_max_c=40.0,
+        requirements=Requirements(frequency=6e3, frequency_tolerance=0.25, duty_min=0.05, duty_max=0.95,
+                                  flicker="no-effect"),
+        notes="LED grow-bar dimmer for a 12 V greenhouse propagator (demo values).",
+    )
+    fan = Design(
+        name="fan",
+        vcc=12.0,
+        vcc_min=11.4,
+        vcc_max=13.8,
+        timing=Timing(topology="pot", ra=1e3, rb=1e3, pot=50e3, wiper=0.6, c=1.0e-9, timer="bipolar",
+                      c_dielectric="c0g"),
+        load=MotorLoad(r=6.0, l=1.5e-3, ke=0.012, b=2e-6, t_load=2e-4, j=2e-6),
+        switch=Switch(mosfet="logic-level-30v", r_gate=22.0),
+        freewheel=Freewheel(diode="schottky-1a"),
+        t_ambient_c=30.0,
+        t_ambient_min_c=5.0,
+        t_ambient_max_c=45.0,
+        requirements=Requirements(frequency=24e3, frequency_tolerance=0.2, duty_min=0.2, duty_max=0.9),
+        notes="Ventilation-fan speed control for the same propagator (demo values).",
+    )
+    return {"grow-bar": grow, "fan": fan}
