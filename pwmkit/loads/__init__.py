@@ -1,0 +1,44 @@
+"""Load-side models: LED strings, perceived brightness, flicker, brushed DC motors,
+the low-side MOSFET, the freewheel diode and simple thermal paths.
+
+Split by physics, one module each:
+
+- :mod:`pwmkit.loads.led` — LED string currents and series resistor;
+- :mod:`pwmkit.loads.lightness` — CIE 1976 L* and perceptually even duty steps;
+- :mod:`pwmkit.loads.flicker` — percent modulation, flicker index, IEEE Std 1789-2015 regions;
+- :mod:`pwmkit.loads.motor` — steady-state chopper current (CCM/DCM) and start-up simulation;
+- :mod:`pwmkit.loads.mosfet` — gate drive, switching and conduction loss, junction temperature;
+- :mod:`pwmkit.loads.diode` — freewheel diode currents, loss, clamp decay;
+- :mod:`pwmkit.loads.thermal` — junction temperature through thermal resistance.
+
+The names below are re-exported lazily so that ``import pwmkit.loads`` stays cheap.
+"""
+
+from __future__ import annotations
+
+import importlib
+from typing import Any
+
+_EXPORTS = {
+    # contract names (see issue: load side)
+    "motor_current": "motor",
+    "lightness": "lightness",
+    "luminance_for_lightness": "lightness",
+    "flicker_class": "flicker",
+    "led_resistor": "led",
+}
+
+__all__ = sorted(_EXPORTS)
+
+# ``lightness`` is both a submodule and a contract function: bind the function eagerly so the
+# attribute stays the function whichever import happens first (numpy-only, cheap).
+from .lightness import lightness, luminance_for_lightness  # noqa: E402
+
+
+def __getattr__(name: str) -> Any:
+    module = _EXPORTS.get(name)
+    if module is not None:
+        return getattr(importlib.import_module(f".{module}", __name__), name)
+    if name in {"led", "lightness", "flicker", "motor", "mosfet", "diode", "thermal"}:
+        return importlib.import_module(f".{name}", __name__)
+    raise AttributeError(f"module 'pwmkit.loads' has no attribute {name!r}")
