@@ -36,6 +36,8 @@ _LAZY = {
     "synthesis",
     "checks",
     "design",
+    "evaluate",
+    "cautions",
     "record",
     "formulas",
     "report",

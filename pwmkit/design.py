@@ -158,14 +158,33 @@ class Timing:
             object.__setattr__(self, name, value.upper())
         for name in ("r_tolerance", "c_tolerance", "pot_tolerance"):
             _num(self, name, minimum=0.0, maximum=0.9)
-        if not isinstance(self.diode, str) or not self.diode:
-            raise DesignError(f"timing.diode: {self.diode!r} is not a diode family name")
+        from .parts.diodes import DIODES
+
+        if not isinstance(self.diode, str) or self.diode not in DIODES:
+            raise DesignError(f"timing.diode: {self.diode!r} is not a known diode family; allowed: "
+                              f"{', '.join(DIODES)}")
+
+    def steering_vd(self) -> float:
+        """Steering-diode drop used when ``vd`` is not fixed [V].
+
+        The design's diode family at :data:`pwmkit.timing.astable.DEFAULT_VD_CURRENT`
+        (1 mA) and 25 °C; for the default small-signal silicon diode this equals
+        :func:`pwmkit.timing.default_vd`.
+        """
+        if self.vd is not None:
+            return float(self.vd)
+        from .parts.diodes import get_diode
+        from .timing.astable import DEFAULT_VD_CURRENT
+
+        return float(get_diode(self.diode).vf(DEFAULT_VD_CURRENT))
 
     def astable_kwargs(self, vcc: float) -> dict[str, Any]:
         """Keyword arguments for :func:`pwmkit.timing.astable` at supply ``vcc``."""
         kw: dict[str, Any] = dict(ra=self.ra, rb=self.rb, c=self.c, vcc=vcc, timer=self.timer)
         if self.topology == "pot":
             kw.update(pot=self.pot, wiper=self.wiper)
+        if self.topology != "classic" and self.vd is None:
+            kw["vd"] = self.steering_vd()
         for name in ("vd", "vsat", "r_on"):
             if getattr(self, name) is not None:
                 kw[name] = getattr(self, name)
@@ -188,6 +207,7 @@ class LedLoad:
     vf : forward voltage per LED at the operating current [V]
     vf_spread : ± spread of vf per LED [V]
     r_series : series resistor per string [Ω]
+    r_power_rating : power rating of that resistor at 70 °C [W]
     colour : colour name (see :data:`pwmkit.loads.led.TYPICAL_VF`)
     """
 
@@ -196,6 +216,7 @@ class LedLoad:
     vf: Any = 3.1
     vf_spread: Any = 0.2
     r_series: Any = 130.0
+    r_power_rating: Any = 0.25
     colour: str = "white"
     kind: Literal["led"] = field(default="led", init=False)
 
@@ -207,6 +228,12 @@ class LedLoad:
         _num(self, "vf", unit="V", minimum=0.5, maximum=10.0)
         _num(self, "vf_spread", unit="V", minimum=0.0, maximum=2.0)
         _num(self, "r_series", unit="Ω", minimum=0.0, min_inclusive=False)
+        _num(self, "r_power_rating", unit="W", minimum=0.0, min_inclusive=False, maximum=100.0)
+        if self.vf_spread >= self.vf:
+            raise DesignError(f"led.vf_spread: {self.vf_spread} V is not below vf {self.vf} V; allowed "
+                              "0 <= vf_spread < vf")
+        if not isinstance(self.colour, str) or not 0 < len(self.colour) <= 40:
+            raise DesignError(f"led.colour: {self.colour!r} is not allowed; give a colour name")
 
 
 @dataclass(frozen=True)
@@ -364,9 +391,10 @@ def demo_designs() -> dict[str, Design]:
     """The demo scenario: a 12 V greenhouse propagator (invented values, for demos only).
 
     ``"grow-bar"``
-        LED grow-bar dimmer: pot-steered CMOS timer near 6 kHz (above the
-        IEEE 1789 no-effect corner for full on/off PWM), three strings of
-        three white LEDs with 130 Ω resistors.
+        LED grow-bar dimmer on a regulated 12 V adapter (±5 %): pot-steered
+        CMOS timer near 6 kHz (above the IEEE 1789 no-effect corner for full
+        on/off PWM), three strings of three deep-red LEDs with 270 Ω, ½ W
+        resistors.
     ``"fan"``
         Ventilation-fan speed control: pot-steered bipolar timer above the
         audible band, small brushed DC fan motor with a Schottky freewheel
@@ -376,10 +404,11 @@ def demo_designs() -> dict[str, Design]:
         name="grow-bar",
         vcc=12.0,
         vcc_min=11.4,
-        vcc_max=13.8,
+        vcc_max=12.6,
         timing=Timing(topology="pot", ra=1e3, rb=1e3, pot=100e3, wiper=0.5, c=2.2e-9, timer="cmos",
                       c_dielectric="c0g", c_tolerance=0.05, r_tolerance=0.05, pot_tolerance=0.2),
-        load=LedLoad(n_series=3, n_parallel=3, vf=3.1, vf_spread=0.2, r_series=130.0, colour="white"),
+        load=LedLoad(n_series=3, n_parallel=3, vf=2.1, vf_spread=0.1, r_series=270.0, r_power_rating=0.5,
+                     colour="red"),
         switch=Switch(mosfet="logic-level-30v", r_gate=10.0),
         freewheel=Freewheel(diode="schottky-1a"),
         t_ambient_c=25.0,
@@ -394,7 +423,7 @@ def demo_designs() -> dict[str, Design]:
         vcc=12.0,
         vcc_min=11.4,
         vcc_max=13.8,
-        timing=Timing(topology="pot", ra=1e3, rb=1e3, pot=50e3, wiper=0.6, c=1.0e-9, timer="bipolar",
+        timing=Timing(topology="pot", ra=1e3, rb=1e3, pot=50e3, wiper=0.6, c=0.82e-9, timer="bipolar",
                       c_dielectric="c0g"),
         load=MotorLoad(r=6.0, l=1.5e-3, ke=0.012, b=2e-6, t_load=2e-4, j=2e-6),
         switch=Switch(mosfet="logic-level-30v", r_gate=22.0),
@@ -402,7 +431,7 @@ def demo_designs() -> dict[str, Design]:
         t_ambient_c=30.0,
         t_ambient_min_c=5.0,
         t_ambient_max_c=45.0,
-        requirements=Requirements(frequency=24e3, frequency_tolerance=0.2, duty_min=0.2, duty_max=0.9),
+        requirements=Requirements(frequency=30e3, frequency_tolerance=0.3, duty_min=0.2, duty_max=0.9),
         notes="Ventilation-fan speed control for the same propagator (demo values).",
     )
     return {"grow-bar": grow, "fan": fan}
