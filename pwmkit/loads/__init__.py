@@ -26,13 +26,26 @@ _EXPORTS = {
     "luminance_for_lightness": "lightness",
     "flicker_class": "flicker",
     "led_resistor": "led",
+    # more of the load side
+    "led_drive": "led",
+    "pwm_flicker": "flicker",
+    "even_duty_steps": "lightness",
+    "MotorParams": "motor",
+    "steady_speed": "motor",
+    "simulate_startup": "motor",
+    "gate_drive": "mosfet",
+    "mosfet_losses": "mosfet",
+    "freewheel_diode": "diode",
+    "clamp_decay": "diode",
+    "junction_temperature": "thermal",
+    "ThermalPath": "thermal",
 }
 
 __all__ = sorted(_EXPORTS)
 
 # ``lightness`` is both a submodule and a contract function: bind the function eagerly so the
 # attribute stays the function whichever import happens first (numpy-only, cheap).
-from .lightness import lightness, luminance_for_lightness  # noqa: E402
+from .lightness import lightness, luminance_for_lightness  # noqa: E402, F401
 
 
 def __getattr__(name: str) -> Any:
