@@ -26,6 +26,7 @@ References
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 from typing import Any
 
@@ -92,9 +93,9 @@ def _bisect(fun: Any, lo: np.ndarray, hi: np.ndarray, iterations: int = 200) -> 
 def _series_diode_current(diode: Any, r: float, v_across: np.ndarray, t_c: float) -> np.ndarray:
     """Current through resistor r in series with a diode, total voltage v_across [A]."""
     v_across = np.maximum(v_across, 0.0)
-    if r <= 0:
-        return np.asarray(diode.current(v_across, t_c), dtype=float)
-    return _bisect(lambda i: v_across - i * r - diode.vf(i, t_c), np.zeros_like(v_across), v_across / r)
+    # a resistor in series with the diode adds to its series resistance: explicit Lambert-W form
+    combined = dataclasses.replace(diode, r_s=diode.r_s + max(r, 0.0))
+    return np.asarray(combined.current(v_across, t_c), dtype=float)
 
 
 def _bypass_charge_current(diode: Any, ra: float, rb: float, v_across: np.ndarray, t_c: float) -> np.ndarray:
@@ -103,11 +104,13 @@ def _bypass_charge_current(diode: Any, ra: float, rb: float, v_across: np.ndarra
     if rb <= 0:
         return v_across / ra
 
-    def balance(u: np.ndarray) -> np.ndarray:
-        return (v_across - u) / ra - diode.current(u, t_c) - u / rb
+    # bisect on the diode current i (its voltage vf(i) is explicit): ra carries i + vf(i)/rb
+    def balance(i: np.ndarray) -> np.ndarray:
+        u = diode.vf(i, t_c)
+        return (v_across - u) / ra - i - u / rb
 
-    u = _bisect(balance, np.zeros_like(v_across), v_across.copy())
-    return (v_across - u) / ra
+    i_d = _bisect(balance, np.zeros_like(v_across), v_across / ra, iterations=80)
+    return (v_across - diode.vf(i_d, t_c)) / ra
 
 
 def _integrate(current: Any, v_lower: float, v_upper: float, v_far: float, c: float, rising: bool) -> float:
