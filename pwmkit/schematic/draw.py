@@ -63,7 +63,7 @@ def draw(
     ra, rb : timing resistors [Ω]; floats or engineering strings such as ``"4k7"``
     c : timing capacitor [F]
     pot : potentiometer end-to-end value, ``"pot"`` only [Ω]
-    wiper : wiper position 0–1, 0 at the charge end A, ``"pot"`` only [1]
+    wiper : fraction of the pot in the charge path, 0–1 (0: wiper at end A, next to the charge diode), ``"pot"`` only [1]
     vctl : control voltage shown at pin 5 [V]
     r_cv : resistor from pin 5 to ground [Ω]
     c_cv : pin-5 bypass capacitor, ``None`` to leave out [F]

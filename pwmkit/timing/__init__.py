@@ -15,10 +15,11 @@ from typing import Any
 
 from .astable import AstableResult, astable, astable_ideal, control_voltage_from_divider, default_vd
 from .paths import TOPOLOGIES, Paths, paths
+from .waveform import Waveform, waveform
 
 __all__ = [
     "TOPOLOGIES", "AstableResult", "Paths", "astable", "astable_ideal", "control_voltage_from_divider",
-    "default_vd", "diode_law_timing", "expressions", "paths", "waveform",
+    "default_vd", "diode_law_timing", "expressions", "paths", "waveform", "Waveform",
 ]
 
 
@@ -32,12 +33,5 @@ def expressions(topology: str, discharge: str = "general", control: str = "exter
 def diode_law_timing(*args: Any, **kwargs: Any) -> Any:
     """Diode-law timing model; see :func:`pwmkit.timing.diode_law.diode_law_timing`."""
     from .diode_law import diode_law_timing as _f
-
-    return _f(*args, **kwargs)
-
-
-def waveform(*args: Any, **kwargs: Any) -> Any:
-    """Sampled waveforms; see :func:`pwmkit.timing.waveform.waveform`."""
-    from .waveform import waveform as _f
 
     return _f(*args, **kwargs)

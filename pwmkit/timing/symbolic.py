@@ -61,7 +61,7 @@ class SymbolTable:
             (self.ra, "charge resistor (R1 in the pot topology)", "Ω"),
             (self.rb, "discharge resistor (end resistor in the pot topology)", "Ω"),
             (self.pot, "potentiometer end-to-end resistance", "Ω"),
-            (self.wiper, "wiper position, 0 at the discharge end … 1 at the charge end", "1"),
+            (self.wiper, "wiper position: fraction of the pot in the charge path (0 … 1)", "1"),
             (self.c, "timing capacitor", "F"),
             (self.vcc, "supply voltage", "V"),
             (self.vd, "steering-diode forward drop", "V"),
