@@ -1,0 +1,206 @@
+"""Running notebooks headless, exporting them to HTML, and the ``pwmkit lab`` working folder.
+
+Where the notebooks come from: a wheel carries them as package data in ``pwmkit/notebooks/``;
+a source checkout (``pip install -e .``) has them in the repository's ``notebooks/`` folder next
+to the package. :func:`notebook_source_dir` looks in that order and uses the first folder that
+holds ``.ipynb`` files.
+
+``pwmkit lab`` copies them into a working folder (default ``./pwmkit-notebooks``) and never
+replaces a copy the user has edited unless asked to (``force``).
+"""
+
+from __future__ import annotations
+
+import filecmp
+import os
+import shutil
+import subprocess
+import sys
+import time
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from ..errors import DesignError
+from .files import atomic_write, read_limited
+
+__all__ = ["notebook_source_dir", "copy_notebooks", "CopyAction", "read_notebook", "execute_notebook",
+           "notebook_html", "display_available", "lab_command", "MAIN_NOTEBOOK"]
+
+#: The notebook ``pwmkit lab`` opens (and runs with ``--headless``).
+MAIN_NOTEBOOK = "greenhouse_design.ipynb"
+_MAX_NOTEBOOK_BYTES = 256 << 20
+
+
+def notebook_source_dir() -> Path:
+    """The folder holding pwmkit's notebooks (package data first, then the source checkout).
+
+    Raises
+    ------
+    DesignError
+        No folder with notebooks was found (a broken installation).
+    """
+    package = Path(__file__).resolve().parent.parent
+    for candidate in (package / "notebooks", package.parent / "notebooks"):
+        if candidate.is_dir() and any(candidate.glob("*.ipynb")):
+            return candidate
+    raise DesignError(f"notebooks: none found in {package / 'notebooks'} or {package.parent / 'notebooks'}; "
+                      "reinstall pwmkit (pip install -e '.[lab]' from a source checkout)")
+
+
+@dataclass(frozen=True)
+class CopyAction:
+    """What :func:`copy_notebooks` did with one notebook.
+
+    ``action`` is ``"copied"`` (new), ``"unchanged"`` (the copy equals the original),
+    ``"kept"`` (the user's copy differs and was left alone) or ``"replaced"`` (``force``).
+    """
+
+    name: str
+    path: Path
+    action: str
+
+
+def copy_notebooks(dest: str | os.PathLike[str], *, force: bool = False,
+                   source: str | os.PathLike[str] | None = None) -> list[CopyAction]:
+    """Copy the packaged notebooks into a working folder without clobbering edited copies.
+
+    Parameters
+    ----------
+    dest : path-like
+        Working folder; created if missing.
+    force : bool
+        Replace copies that differ from the packaged notebooks.
+    source : path-like, optional
+        Folder to copy from (default :func:`notebook_source_dir`).
+
+    Returns
+    -------
+    list of CopyAction
+    """
+    src = Path(source) if source is not None else notebook_source_dir()
+    out = Path(dest)
+    if out.exists() and not out.is_dir():
+        raise DesignError(f"{out}: exists and is not a folder; choose another working folder")
+    out.mkdir(parents=True, exist_ok=True)
+    actions = []
+    for nb in sorted(src.glob("*.ipynb")):
+        target = out / nb.name
+        if target.is_symlink() or (target.exists() and not target.is_file()):
+            raise DesignError(f"{target}: is not a regular file; move it away first")
+        if not target.exists():
+            atomic_write(target, nb.read_bytes())
+            actions.append(CopyAction(nb.name, target, "copied"))
+        elif filecmp.cmp(nb, target, shallow=False):
+            actions.append(CopyAction(nb.name, target, "unchanged"))
+        elif force:
+            atomic_write(target, nb.read_bytes(), force=True)
+            actions.append(CopyAction(nb.name, target, "replaced"))
+        else:
+            actions.append(CopyAction(nb.name, target, "kept"))
+    if not actions:
+        raise DesignError(f"{src}: holds no notebooks")
+    return actions
+
+
+def read_notebook(path: str | os.PathLike[str]) -> Any:
+    """Read a notebook file (nbformat v4) with a size limit; errors become :class:`DesignError`."""
+    import nbformat
+
+    p = Path(path)
+    data = read_limited(p, limit=_MAX_NOTEBOOK_BYTES, what="notebook")
+    try:
+        return nbformat.reads(data.decode("utf-8"), as_version=4)
+    except UnicodeDecodeError:
+        raise DesignError(f"{p}: not UTF-8 text; a notebook is a JSON text file") from None
+    except Exception as exc:  # nbformat raises several kinds (JSON, validation, version)
+        raise DesignError(f"{p}: not a readable notebook ({type(exc).__name__}: {_first_line(exc)})") from None
+
+
+def _first_line(exc: BaseException) -> str:
+    text = str(exc).strip()
+    return text.splitlines()[0][:300] if text else type(exc).__name__
+
+
+@dataclass(frozen=True)
+class Execution:
+    """The outcome of :func:`execute_notebook`: the executed notebook or the error, and the time taken."""
+
+    notebook: Any
+    error: str | None
+    seconds: float
+
+
+def execute_notebook(nb: Any, *, cwd: str | os.PathLike[str], timeout: float = 600.0,
+                     kernel: str = "python3") -> Execution:
+    """Execute a notebook (a copy; ``nb`` is not changed) with nbclient in folder ``cwd``.
+
+    Returns
+    -------
+    Execution
+        ``error`` is a one-line description (cell number, exception name and message) or None.
+    """
+    import copy
+
+    from nbclient import NotebookClient
+    from nbclient.exceptions import CellExecutionError, CellTimeoutError, DeadKernelError
+
+    work = copy.deepcopy(nb)
+    client = NotebookClient(work, timeout=timeout, startup_timeout=120, kernel_name=kernel,
+                            resources={"metadata": {"path": str(cwd)}}, record_timing=False)
+    start = time.perf_counter()
+    error = None
+    try:
+        # the kernel's own log lines (e.g. its note about local TCP transport) would clutter the output
+        client.execute(stderr=subprocess.DEVNULL)
+    except CellExecutionError as exc:
+        error = f"a cell raised an error: {_cell_error(work) or _first_line(exc)}"
+    except CellTimeoutError:
+        error = f"a cell ran longer than the timeout ({timeout:g} s)"
+    except DeadKernelError as exc:
+        error = f"the kernel died ({_first_line(exc)})"
+    except Exception as exc:  # kernel start-up problems: no such kernel, ports, …
+        error = f"could not run the notebook ({type(exc).__name__}: {_first_line(exc)})"
+    return Execution(work, error, time.perf_counter() - start)
+
+
+def _cell_error(nb: Any) -> str | None:
+    """'cell 3: ValueError: …' for the first cell with an error output."""
+    code_index = 0
+    for cell in nb.get("cells", []):
+        if cell.get("cell_type") != "code":
+            continue
+        code_index += 1
+        for out in cell.get("outputs", []):
+            if out.get("output_type") == "error":
+                return f"code cell {code_index}: {out.get('ename', 'Error')}: {str(out.get('evalue', ''))[:300]}"
+    return None
+
+
+def notebook_html(nb: Any) -> str:
+    """The notebook as one HTML page (nbconvert's HTML exporter, widget state kept)."""
+    from nbconvert import HTMLExporter
+
+    exporter = HTMLExporter(template_name="lab")
+    body, _ = exporter.from_notebook_node(nb)
+    return body
+
+
+def display_available() -> bool:
+    """Whether a browser can probably be opened.
+
+    True on macOS and Windows; elsewhere when ``$DISPLAY`` or ``$WAYLAND_DISPLAY`` is set or
+    ``$BROWSER`` names a browser. ``pwmkit lab`` runs headless otherwise.
+    """
+    if sys.platform == "darwin" or os.name == "nt":
+        return True
+    env = os.environ
+    return bool(env.get("DISPLAY") or env.get("WAYLAND_DISPLAY") or env.get("BROWSER"))
+
+
+def lab_command(folder: Path, notebook: str = MAIN_NOTEBOOK, extra: list[str] | None = None) -> list[str]:
+    """The command that starts JupyterLab on ``notebook`` in ``folder`` (local address only)."""
+    exe = shutil.which("jupyter-lab")
+    head = [exe] if exe else [sys.executable, "-m", "jupyterlab"]
+    return [*head, "--ServerApp.ip=127.0.0.1", f"--ServerApp.root_dir={folder}", *(extra or []),
+            str(folder / notebook)]

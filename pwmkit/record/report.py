@@ -1,0 +1,388 @@
+"""One self-contained HTML review document per design (presentation layer).
+
+:func:`report_html` gathers what a reviewer needs on one page: the requirements, the circuit in
+words and as a schematic, the parts with their preferred-value series, the timing (exact against
+the textbook 0.693 estimate), interactive plots (capacitor waveform with thresholds and the load
+current, pot travel, Monte Carlo histograms, MOSFET losses), the spread summary, the design-rule findings, the timing
+formulas with the design's numbers worked in, and the safety cautions.
+
+The file needs nothing from the network: BokehJS is embedded inline (only the parts the plots
+use), formulas are MathML (rendered by the browser) with the LaTeX source and a plain-text
+version alongside, the schematic is inline SVG, and the styles are in the page. Every text that
+comes from the design file is HTML-escaped.
+
+Colours: a restrained palette of our own on the Okabe–Ito colour-blind-safe set
+(:mod:`pwmkit.plots.style`); severities are always written in words as well.
+"""
+
+from __future__ import annotations
+
+import html
+import os
+from pathlib import Path
+from typing import Any
+
+from ..design import Design, LedLoad, MotorLoad
+from ..errors import DesignError
+
+__all__ = ["report_html", "write_report", "finding_value_text"]
+
+_CSS = """
+:root { --ink:#1f2328; --muted:#5a6270; --rule:#d9dcd6; --panel:#f6f5f1; --accent:#0072B2;
+        --ok:#009E73; --warn:#E69F00; --fail:#D55E00; }
+* { box-sizing: border-box; }
+body { margin:0; background:#fcfcfa; color:var(--ink);
+       font:15px/1.5 'Source Sans 3','Segoe UI',Helvetica,Arial,sans-serif; }
+main { max-width:1080px; margin:0 auto; padding:28px 32px 60px; }
+header.top { border-bottom:3px double var(--rule); margin-bottom:20px; padding-bottom:10px; }
+header.top h1 { font-size:26px; margin:0; letter-spacing:.01em; }
+header.top p { margin:4px 0 0; color:var(--muted); }
+h2 { font-size:18px; margin:34px 0 10px; padding-left:10px; border-left:4px solid var(--accent); }
+h3 { font-size:15px; margin:18px 0 6px; color:var(--muted); letter-spacing:.02em; }
+table { border-collapse:collapse; width:100%; margin:6px 0 12px; font-size:14px; }
+th, td { text-align:left; padding:5px 8px; border-bottom:1px solid var(--rule); vertical-align:top; }
+th { font-weight:600; background:var(--panel); }
+td.num, th.num { text-align:right; white-space:nowrap; font-variant-numeric:tabular-nums; }
+.verdict { display:flex; gap:14px; flex-wrap:wrap; margin:10px 0 6px; }
+.verdict div { background:var(--panel); border:1px solid var(--rule); padding:8px 14px; min-width:150px; }
+.verdict b { display:block; font-size:20px; }
+.sev { display:inline-block; min-width:6.2em; padding:0 6px; font-weight:600; border-left:6px solid; }
+.sev-ok { border-color:var(--ok); } .sev-warn { border-color:var(--warn); } .sev-fail { border-color:var(--fail); }
+.plot { margin:8px 0 16px; }
+.schematic { background:white; border:1px solid var(--rule); padding:8px; overflow-x:auto; }
+.schematic svg { max-width:100%; height:auto; }
+pre { background:var(--panel); border:1px solid var(--rule); padding:10px; overflow-x:auto; font-size:12.5px;
+      line-height:1.25; }
+details { margin:4px 0 12px; } summary { cursor:pointer; color:var(--muted); }
+math[display=block] { margin:8px 0; overflow-x:auto; }
+.caution { border:1px solid var(--rule); border-left:6px solid var(--warn); background:#fffdf7; padding:8px 12px;
+           margin:8px 0; }
+.note { color:var(--muted); font-size:13px; }
+footer { margin-top:40px; border-top:1px solid var(--rule); padding-top:10px; color:var(--muted); font-size:13px; }
+"""
+
+
+def _e(text: Any) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _fv(x: Any, unit: str, digits: int = 4) -> str:
+    from ..values import format_value
+
+    return format_value(float(x), unit, digits)
+
+
+def _table(head: tuple[str, ...], rows: list[tuple[Any, ...]], numeric: tuple[int, ...] = (), cls: str = "") -> str:
+    th = "".join(f"<th class='num'>{_e(h)}</th>" if i in numeric else f"<th>{_e(h)}</th>" for i, h in enumerate(head))
+    body = "".join("<tr>" + "".join(f"<td class='num'>{_e(c)}</td>" if i in numeric else f"<td>{_e(c)}</td>"
+                                    for i, c in enumerate(r)) + "</tr>" for r in rows)
+    return f"<table class='{cls}'><thead><tr>{th}</tr></thead><tbody>{body}</tbody></table>"
+
+
+# ------------------------------------------------------------------------------------------------
+# sections
+# ------------------------------------------------------------------------------------------------
+def _requirements(design: Design) -> str:
+    r = design.requirements
+    rows: list[tuple[str, str]] = []
+    if r.frequency is not None:
+        rows.append(("PWM frequency", f"{_fv(r.frequency, 'Hz')} ± {100 * r.frequency_tolerance:.3g} %"))
+    if r.duty is not None:
+        rows.append(("duty", f"{100 * r.duty:.3g} %"))
+    if r.duty_min is not None or r.duty_max is not None:
+        lo = "—" if r.duty_min is None else f"{100 * r.duty_min:.3g} %"
+        hi = "—" if r.duty_max is None else f"{100 * r.duty_max:.3g} %"
+        rows.append(("duty range to reach" if design.timing.topology == "pot" else "duty window", f"{lo} … {hi}"))
+    if r.flicker is not None:
+        rows.append(("flicker (IEEE Std 1789-2015 region)", r.flicker))
+    lo, hi = design.supply_range
+    rows.append(("timer supply", f"{_fv(design.vcc, 'V')} (range {_fv(lo, 'V')} … {_fv(hi, 'V')})"))
+    if design.v_load is not None:
+        rows.append(("load supply", _fv(design.v_load, "V")))
+    rows.append(("ambient", f"{design.t_ambient_c:g} °C (range {design.t_ambient_min_c:g} … "
+                            f"{design.t_ambient_max_c:g} °C)"))
+    return _table(("requirement", "value"), rows)
+
+
+_TOPOLOGY_TEXT = {
+    "classic": "The capacitor charges through R1 and R2 in series and discharges through R2 into the timer's "
+               "discharge pin, so the output is high for longer than it is low.",
+    "bypass": "A diode across R2 lets the capacitor charge through R1 alone and discharge through R2, so high "
+              "and low times are set separately (the diode drop is in the charge path).",
+    "steered": "Two steering diodes separate the paths: the capacitor charges through R1 and D1 and discharges "
+               "through D2 and R2, so high and low times are set separately.",
+    "pot": "A potentiometer P1 with its wiper on the discharge pin splits its track between the two paths: the "
+           "capacitor charges through R1, the wiper-side part of P1 and D1, and discharges through D2, the other "
+           "part of P1 and R2. Turning P1 moves duty while the period stays nearly constant.",
+}
+
+
+def _circuit(design: Design, evaluation: Any) -> str:
+    from ..parts.timers import get_timer
+
+    t = design.timing
+    fam = get_timer(t.timer)
+    parts = [f"A {fam.description} runs as an astable multivibrator from {_fv(design.vcc, 'V')}. "
+             + _TOPOLOGY_TEXT[t.topology]]
+    if t.vctl is not None:
+        parts.append(f"An external {_fv(t.vctl, 'V')} at the control pin sets the upper threshold (the lower "
+                     "one is half of it).")
+    elif t.r_cv is not None:
+        parts.append(f"R3 ({_fv(t.r_cv, 'Ω')}) from the control pin to ground lowers both thresholds to "
+                     f"{_fv(evaluation.timing.v_upper, 'V')} and {_fv(evaluation.timing.v_lower, 'V')}.")
+    else:
+        parts.append("The internal divider sets the thresholds at 2/3 and 1/3 of the supply"
+                     + (f"; C2 ({_fv(t.cv_bypass, 'F')}) bypasses the control pin." if t.cv_bypass else "."))
+    load = design.load
+    if load is not None:
+        sw = design.switch
+        parts.append(f"The timer output drives a low-side N-channel MOSFET ({sw.mosfet}) through "
+                     f"{_fv(sw.r_gate, 'Ω')}.")
+    if isinstance(load, LedLoad):
+        parts.append(f"The load is {load.n_parallel} string(s) of {load.n_series} {load.colour} LEDs, each string "
+                     f"with a {_fv(load.r_series, 'Ω')} series resistor, from {_fv(design.load_supply, 'V')}.")
+    elif isinstance(load, MotorLoad):
+        clamp = (f" in series with a {_fv(design.freewheel.v_zener, 'V')} Zener clamp"
+                 if design.freewheel.clamp == "zener" else "")
+        parts.append(f"The load is a brushed DC motor (R {_fv(load.r, 'Ω')}, L {_fv(load.l, 'H')}) from "
+                     f"{_fv(design.load_supply, 'V')}, with a freewheel diode ({design.freewheel.diode}){clamp} "
+                     "across it.")
+    return "<p>" + " ".join(_e(p) for p in parts) + "</p>"
+
+
+def _schematic(design: Design, evaluation: Any) -> str:
+    try:
+        from ..schematic import draw
+    except ImportError:  # pragma: no cover - the schematic package is optional
+        return ""
+    t = design.timing
+    load = design.load
+    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass, r_cv=t.r_cv, vctl=t.vctl)
+    if t.topology == "pot":
+        kw.update(pot=t.pot, wiper=t.wiper)
+    if load is not None:
+        kw.update(load=load.kind, r_gate=design.switch.r_gate, v_load=design.v_load, clamp=design.freewheel.clamp)
+        if isinstance(load, LedLoad):
+            kw.update(n_series=load.n_series, n_parallel=load.n_parallel, r_led=load.r_series)
+        if design.freewheel.clamp == "zener":
+            kw["v_zener"] = design.freewheel.v_zener
+    tm = evaluation.timing
+    kw["annotations"] = {"t_high": float(tm.t_high), "t_low": float(tm.t_low), "frequency": float(tm.frequency),
+                         "duty": float(tm.duty), "r_charge": float(tm.r_charge), "r_discharge": float(tm.r_discharge)}
+    try:
+        svg = draw(t.topology, **kw).svg
+    except (DesignError, ImportError) as exc:
+        return f"<p class='note'>Schematic not drawn: {_e(exc)}</p>"
+    start = svg.find("<svg")
+    return f"<div class='schematic'>{svg[start:] if start >= 0 else svg}</div>"
+
+
+def _timing(evaluation: Any) -> str:
+    ex, ideal = evaluation.timing, evaluation.ideal
+    rows = []
+    for label, key, unit in (("t_high (charge)", "t_high", "s"), ("t_low (discharge)", "t_low", "s"),
+                             ("period", "period", "s"), ("frequency", "frequency", "Hz")):
+        a, b = float(getattr(ex, key)), float(getattr(ideal, key))
+        rows.append((label, _fv(a, unit, 5), _fv(b, unit, 5), f"{100 * (a / b - 1):+.2f} %"))
+    rows.append(("duty", f"{100 * float(ex.duty):.3f} %", f"{100 * float(ideal.duty):.3f} %",
+                 f"{100 * (float(ex.duty) - float(ideal.duty)):+.2f} points"))
+    out = _table(("quantity", "exact", "0.693 estimate", "difference"), rows, numeric=(1, 2, 3))
+    dl = evaluation.diode_law
+    if dl is not None:
+        out += (f"<p class='note'>With Shockley-law steering diodes (an independent model) the frequency is "
+                f"{_e(_fv(dl.frequency, 'Hz', 5))} and the duty {100 * float(dl.duty):.3f} % "
+                f"({100 * float(dl.frequency_error):+.3f} % frequency difference from the constant-drop "
+                "closed form).</p>")
+    cond = evaluation.conditions
+    if cond.vd is not None:
+        out += (f"<p class='note'>Closed form with a steering-diode drop of {_e(_fv(cond.vd, 'V'))}, thresholds "
+                f"{_e(_fv(ex.v_upper, 'V'))} / {_e(_fv(ex.v_lower, 'V'))}.</p>")
+    return out
+
+
+def _spread(evaluation: Any) -> str:
+    sp = evaluation.spread
+    if sp is None:
+        note = evaluation.conditions.spread_note
+        return ("<p class='note'>No tolerance analysis in this report (quick mode)"
+                + (f": {_e(note)}" if note else "") + ".</p>")
+    import numpy as np
+
+    q = np.array([0.135, 1.0, 50.0, 99.0, 99.865])
+    p = sp.percentile(q)
+    rows = [(f"{qq:g} %", _fv(f, "Hz", 5), f"{100 * d:.3f} %") for qq, f, d in zip(q, p.frequency, p.duty)]
+    out = _table(("percentile", "frequency", "duty"), rows, numeric=(1, 2))
+    items = [f"{sp.n} samples (seed {sp.seed})" + (f", {sp.n_failed} do not oscillate" if sp.n_failed else ""),
+             f"frequency {_fv(sp.frequency_mean, 'Hz', 5)} ± {_fv(sp.frequency_std, 'Hz', 3)} (mean ± σ)",
+             f"duty {100 * sp.duty_mean:.3f} % ± {100 * sp.duty_std:.3g} % (mean ± σ)"]
+    if sp.yield_ is not None:
+        items.append(f"yield inside the requirement window: {100 * sp.yield_:.3f} %")
+    wc = evaluation.worst_case
+    if wc is not None:
+        items.append(f"worst case: frequency {_fv(wc.frequency_min, 'Hz', 4)} … {_fv(wc.frequency_max, 'Hz', 4)}, "
+                     f"duty {100 * wc.duty_min:.2f} … {100 * wc.duty_max:.2f} %")
+    if sp.sources:
+        items.append("spread sources: " + "; ".join(sp.sources))
+    if evaluation.conditions.spread_note:
+        items.append(evaluation.conditions.spread_note)
+    return out + "<ul>" + "".join(f"<li>{_e(i)}</li>" for i in items) + "</ul>"
+
+
+_PLAIN_UNITS = ("%", "°C", "", "K", "points", "rpm")
+
+
+def finding_value_text(x: float | None, unit: str) -> str:
+    """A finding's value or limit as text: engineering notation for SI units, plain otherwise; "—" for None."""
+    if x is None:
+        return "—"
+    if unit in _PLAIN_UNITS:
+        return f"{x:.4g} {unit}".strip()
+    return _fv(x, unit, 3)
+
+
+def _findings(evaluation: Any) -> str:
+    from ..checks import severity_style
+
+    fs = evaluation.findings
+    order = {"fail": 0, "warn": 1, "ok": 2}
+    rows = []
+    for f in sorted(fs, key=lambda f: order.get(f.severity, 3)):
+        _, symbol, word = severity_style(f.severity)
+        remedy = f"<br><em>Remedy:</em> {_e(f.remedy)}" if f.remedy and f.severity != "ok" else ""
+        rows.append(f"<tr><td><span class='sev sev-{_e(f.severity)}'>{_e(symbol)} {_e(word)}</span></td>"
+                    f"<td><b>{_e(f.title)}</b><br><code>{_e(f.id)}</code></td><td class='num'>{_e(finding_value_text(f.value, f.unit))}</td>"
+                    f"<td class='num'>{_e(finding_value_text(f.limit, f.unit))}</td><td>{_e(f.explanation)}{remedy}"
+                    f"<br><span class='note'>origin: {_e(f.origin)}</span></td></tr>")
+    head = ("<tr><th>severity</th><th>rule</th><th class='num'>value</th><th class='num'>limit</th>"
+            "<th>finding</th></tr>")
+    return f"<table class='findings'><thead>{head}</thead><tbody>{''.join(rows)}</tbody></table>"
+
+
+def _formulas(design: Design) -> str:
+    from .formulas import design_variant, formula, worked
+
+    discharge, control, _ = design_variant(design)
+    topo = design.timing.topology
+    out = []
+    for q, title in (("t_high", "Output-high time"), ("t_low", "Output-low time")):
+        out.append(f"<h3>{_e(title)}</h3>")
+        out.append(formula(topo, q, fmt="mathml", discharge=discharge, control=control))
+        out.append(f"<pre>{_e(worked(design, q, 'unicode'))}</pre>")
+        latex = formula(topo, q, fmt="latex", discharge=discharge, control=control)
+        out.append(f"<details><summary>LaTeX source</summary><pre>{_e(latex)}</pre></details>")
+    out.append("<h3>Period, frequency, duty</h3>")
+    out.append("<pre>" + "\n\n".join(_e(worked(design, q, "unicode")) for q in ("period", "frequency", "duty"))
+               + "</pre>")
+    from .formulas import symbol_table
+
+    out.append(f"<details><summary>symbols</summary><pre>{_e(symbol_table('unicode'))}</pre></details>")
+    return "".join(out)
+
+
+def _cautions(evaluation: Any) -> str:
+    return "".join(f"<div class='caution'><b>{_e(c.title)}.</b> {_e(c.text)}</div>" for c in evaluation.cautions)
+
+
+def _plots(evaluation: Any) -> tuple[str, dict[str, str]]:
+    """(script and BokehJS to put in <head>, div per figure key)."""
+    from bokeh.embed import components
+    from bokeh.embed.bundle import bundle_for_objs_and_resources
+    from bokeh.resources import INLINE
+
+    from .report_plots import report_figures
+
+    figs = report_figures(evaluation)
+    if not figs:  # pragma: no cover - the waveform is always there
+        return "", {}
+    script, divs = components(figs)
+    bundle = bundle_for_objs_and_resources(list(figs.values()), INLINE)
+    if bundle.js_files or bundle.css_files:  # pragma: no cover - INLINE resources never link out
+        raise RuntimeError("bokeh resources would load files from the network")
+    return "".join(bundle) + script, dict(divs)
+
+
+# ------------------------------------------------------------------------------------------------
+# public API
+# ------------------------------------------------------------------------------------------------
+def report_html(design: Design, evaluation: Any = None) -> str:
+    """The design's review document as one self-contained HTML page.
+
+    Parameters
+    ----------
+    design : Design
+    evaluation : pwmkit.evaluate.Evaluation, optional
+        Its evaluation; computed with the full tolerance analysis when not given.
+
+    Returns
+    -------
+    str
+        A complete HTML document (UTF-8) with inline BokehJS, styles, SVG and MathML; it loads
+        nothing from the network.
+    """
+    if not isinstance(design, Design):
+        raise DesignError(f"design: expected a pwmkit.design.Design, got {type(design).__name__}")
+    if evaluation is None:
+        from ..evaluate import evaluate
+
+        evaluation = evaluate(design)
+    elif getattr(evaluation, "design", design) != design:
+        raise DesignError("evaluation: it belongs to another design; evaluate this design or leave it out")
+    import pwmkit
+
+    from .bom import bom_rows
+
+    head_js, divs = _plots(evaluation)
+    fs = evaluation.findings
+    tm = evaluation.timing
+    name = _e(design.name)
+    verdict = (f"<div class='verdict'><div>frequency<b>{_e(_fv(tm.frequency, 'Hz', 4))}</b></div>"
+               f"<div>duty<b>{100 * float(tm.duty):.1f} %</b></div>"
+               f"<div>checks<b>{fs.fail_count} fail · {fs.warn_count} warn · {fs.ok_count} ok</b></div></div>")
+    bom = _table(("ref", "qty", "part", "value", "series", "tolerance", "notes"),
+                 [r.as_tuple() for r in bom_rows(design, evaluation)], numeric=(1,))
+    sections = [
+        ("summary", "Summary", verdict + (f"<p>{_e(design.notes)}</p>" if design.notes else "")),
+        ("requirements", "Requirements", _requirements(design)),
+        ("circuit", "Circuit", _circuit(design, evaluation) + _schematic(design, evaluation)),
+        ("parts", "Parts and preferred-value series", bom
+         + "<p class='note'>Preferred values after IEC 60063; tolerances as given in the design.</p>"),
+        ("timing", "Timing", _timing(evaluation)
+         + f"<div class='plot'>{divs.get('waveform', '')}</div>"
+         + (f"<h3>Pot travel</h3><div class='plot'>{divs['pot']}</div>" if "pot" in divs else "")
+         + (f"<h3>MOSFET losses</h3><div class='plot'>{divs['losses']}</div>" if "losses" in divs else "")),
+        ("spread", "Spread over tolerances, temperature and supply", _spread(evaluation)
+         + (f"<div class='plot'>{divs['spread']}</div>" if "spread" in divs else "")),
+        ("findings", "Design-rule checks", _findings(evaluation)),
+        ("formulas", "Timing formulas with this design's numbers", _formulas(design)),
+        ("cautions", "Cautions", _cautions(evaluation)),
+    ]
+    body = "".join(f"<section id='{sid}'><h2>{_e(title)}</h2>{content}</section>" for sid, title, content in sections)
+    return (
+        "<!DOCTYPE html>\n<html lang='en'><head><meta charset='utf-8'>"
+        "<meta name='viewport' content='width=device-width, initial-scale=1'>"
+        f"<meta name='generator' content='pwmkit {_e(pwmkit.__version__)}'>"
+        f"<title>pwmkit design record — {name}</title><style>{_CSS}</style>{head_js}</head>"
+        f"<body><main><header class='top'><h1>Design record — {name}</h1>"
+        f"<p>{_e(design.timing.topology)} astable, {_e(design.timing.timer)} timer"
+        f"{', ' + _e(design.load.kind) + ' load' if design.load is not None else ''}. "
+        "Every figure below is computed by pwmkit's models from the design file.</p></header>"
+        f"{body}<footer>Generated by pwmkit {_e(pwmkit.__version__)}. Model results for review: verify every design "
+        "on the bench and follow the part makers' data sheets, local codes and licensed practice.</footer>"
+        "</main></body></html>\n"
+    )
+
+
+def write_report(design: Design, path: str | os.PathLike[str], *, evaluation: Any = None, force: bool = False) -> Path:
+    """Write :func:`report_html` to ``path`` atomically (refuses to replace a file unless ``force``).
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+    """
+    from .files import atomic_write
+
+    p = Path(path)
+    if p.exists() and not force:
+        raise DesignError(f"{p}: already exists; use --force (force=True) to replace it")
+    return atomic_write(p, report_html(design, evaluation), force=force)
