@@ -812,3 +812,4 @@ def simulate_startup(
         t=t_out, i=i_out, omega=w_out, e=ke * w_out, omega_final=float(w_out[-1]),
         i_mean_final=float(q_last * f), i_peak=float(np.max(i_out)), steps=int(k),
     )
+
