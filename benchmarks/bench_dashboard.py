@@ -1,0 +1,118 @@
+"""Dashboard benchmark: time per change, as the kernel sees it, for the two demo designs.
+
+A "change" is one widget value set in Python, exactly what a front-end message does: the panel's
+callback runs, the session evaluates the design (``evaluate(design, spread=False)``), and every
+panel that follows the session updates its readouts and assigns its plots' ``ColumnDataSource.data``.
+The run happens inside an asyncio event loop, as in an IPython kernel, so the debounced extras
+(schematic SVG, formula sheet) are only scheduled — they are timed separately, as is the Monte
+Carlo spread (on demand in the dashboard).
+
+Change types: slider tick (wiper ±0.005, ra slider), topology switch, E-series snap. Target
+(issue 5): median ≤ 30 ms per change for the full-dashboard model recompute.
+
+Run: python benchmarks/bench_dashboard.py
+"""
+
+from __future__ import annotations
+
+import asyncio
+import statistics
+import time
+from collections.abc import Callable
+
+TARGET_MS = 30.0
+
+
+def _stats(samples: list[float]) -> tuple[float, float]:
+    ms = sorted(1e3 * s for s in samples)
+    p90 = ms[min(len(ms) - 1, int(round(0.9 * (len(ms) - 1))))]
+    return statistics.median(ms), p90
+
+
+def _time(action: Callable[[], None]) -> float:
+    t0 = time.perf_counter()
+    action()
+    return time.perf_counter() - t0
+
+
+def _row(label: str, samples: list[float], target: float | None = TARGET_MS) -> None:
+    med, p90 = _stats(samples)
+    ratio = f"{med / target:5.2f}× target" if target else ""
+    print(f"  {label:<34} n={len(samples):3d}  median {med:8.2f} ms   p90 {p90:8.2f} ms   {ratio}")
+
+
+async def bench_design(name: str, design, ticks: int = 40) -> None:  # noqa: ANN001 - a Design
+    from pwmkit.evaluate import evaluate
+    from pwmkit.widgets import dashboard
+
+    t0 = time.perf_counter()
+    dash = dashboard(design, debounce=0.3)
+    build = time.perf_counter() - t0
+    tp = dash.timing
+    print(f"\n{name}: dashboard built in {build:.2f} s (first build derives and lambdifies the sympy forms)")
+
+    # evaluate alone, for reference
+    evals = [_time(lambda w=w: evaluate(design.with_timing(wiper=w), spread=False))
+             for w in [0.3 + 0.005 * k for k in range(ticks)]]
+    _row("evaluate(spread=False) alone", evals)
+
+    # slider ticks on the wiper
+    base = tp.wiper.value
+    wiper = []
+    for k in range(ticks):
+        value = round(base + (0.005 if k % 2 == 0 else -0.005) * (1 + k % 3), 4)
+        wiper.append(_time(lambda v=value: setattr(tp.wiper, "value", v)))
+    assert not tp.message_text, tp.message_text
+    _row("slider tick (wiper)", wiper)
+
+    # slider ticks on the ra log slider
+    ra = tp.entries["ra"].slider
+    start = ra.value
+    ra_ticks = [_time(lambda v=start * (1.02 ** ((k % 5) - 2)): setattr(ra, "value", v)) for k in range(ticks)]
+    _row("slider tick (R_A, log slider)", ra_ticks)
+    ra.value = start
+
+    # topology switches (each topology visited once first: derivation and lambdify are one-off)
+    order = ["steered", "bypass", "classic", design.timing.topology]
+    for topo in order:
+        tp.topology.value = topo
+    switches = []
+    for _ in range(4):
+        for topo in order:
+            switches.append(_time(lambda t=topo: setattr(tp.topology, "value", t)))
+    assert not tp.message_text, tp.message_text
+    _row("topology switch", switches)
+
+    # E-series snap: put off-series values in, then snap (only the snap is timed)
+    snaps = []
+    for series in ["E6", "E12", "E24", "E48", "E96"] * 3:
+        tp.snap.value = "exact"
+        tp.entries["ra"].submit(1234.0)
+        tp.entries["c"].submit(2.345e-9)
+        snaps.append(_time(lambda s=series: setattr(tp.snap, "value", s)))
+    tp.snap.value = "exact"
+    _row("E-series snap", snaps)
+
+    # debounced extras, timed on their own
+    if dash.schematic is not None:
+        _row("schematic redraw (debounced)", [_time(dash.schematic._draw) for _ in range(10)], None)
+    _row("formula sheet (debounced)", [_time(dash.formulas._refresh_now) for _ in range(10)], None)
+
+    # spread on demand
+    dash.spread._run_safely()  # warm-up (derives the sensitivity expressions once)
+    for n in (2000, 20_000):
+        dash.session.n_mc = n
+        _row(f"spread run, n_mc = {n}", [_time(dash.spread._run_safely) for _ in range(3)], None)
+    dash.flush()
+
+
+async def main() -> None:
+    from pwmkit.design import demo_designs
+
+    print(f"Dashboard change cost (target: median ≤ {TARGET_MS:g} ms for the model recompute)")
+    for name, design in demo_designs().items():
+        await bench_design(name, design)
+
+
+if __name__ == "__main__":
+    asyncio.run(main())

@@ -1,0 +1,257 @@
+"""The design dashboard: every panel on one shared design session, built by :func:`dashboard`.
+
+Layout: a header line (design, verdict of the checks), the cautions, the timing panel beside the
+waveforms, then tabs — pot travel, spread, load and output stage, flicker map, checks, formulas,
+schematic.
+
+Live-update policy
+------------------
+- Text fields apply on Enter or when they lose focus (``continuous_update=False``).
+- Sliders apply while dragged. The ipywidgets front end keeps one update in flight and sends the
+  latest slider position once the kernel is free, so a fast drag coalesces by itself and never
+  queues stale positions. Each accepted change runs one ``evaluate(design, spread=False)``; every
+  plot gets one whole-dict ``ColumnDataSource.data`` assignment (one patch message); readouts are
+  HTML widgets updated inside ``hold_sync``. Figures are built once and never rebuilt.
+- Only the visible tab follows every change; a hidden tab catches up when it is selected.
+- Slower work — the schematic SVG, the formula sheet and (when "follow changes" is ticked) the
+  Monte Carlo spread — is debounced on the kernel's event loop: it runs once the edits have been
+  quiet for a short time. :meth:`Dashboard.flush` runs pending work at once (useful in a cell).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import ipywidgets as w
+
+from ..design import Design
+from ._base import esc, log
+from .checks import CautionsBox, FindingsPanel
+from .formulas import FormulasPanel
+from .loads import LoadsPanel
+from .session import DesignSession, as_session
+from .spread import SpreadPanel
+from .timing import TimingPanel
+from .views import FlickerPanel, PotTravelPanel, WaveformPanel
+
+__all__ = ["Dashboard", "dashboard", "load_bokehjs"]
+
+
+def load_bokehjs() -> bool:
+    """Put BokehJS on the notebook page from the installed bokeh (no network).
+
+    Calls ``bokeh.io.output_notebook(resources=INLINE, hide_banner=True)`` when running in an
+    IPython kernel; elsewhere (plain Python, tests) it does nothing.
+
+    Returns
+    -------
+    bool
+        True when BokehJS was sent to a front end.
+    """
+    try:
+        from IPython import get_ipython
+    except ImportError:  # pragma: no cover - IPython comes with ipywidgets
+        return False
+    shell = get_ipython()
+    if shell is None or not hasattr(shell, "kernel"):
+        return False
+    from bokeh.io import output_notebook
+    from bokeh.resources import INLINE
+
+    output_notebook(resources=INLINE, hide_banner=True)
+    return True
+
+
+def _header_html(design: Design, evaluation: Any) -> str:
+    from ..checks.findings import severity_style
+
+    f = evaluation.findings
+    parts = []
+    for sev, n in (("fail", f.fail_count), ("warn", f.warn_count), ("ok", f.ok_count)):
+        colour, symbol, word = severity_style(sev)
+        parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px'>"
+                     f"{symbol} {n} {esc(word)}</span>")
+    load = "no load" if design.load is None else f"{design.load.kind} load"
+    return (f"<div class='pwmkit-header' style='display:flex;gap:16px;align-items:baseline;flex-wrap:wrap'>"
+            f"<span style='font-size:16px;font-weight:700'>{esc(design.name)}</span>"
+            f"<span style='color:#5a6270'>{esc(design.timing.topology)} astable · {esc(design.timing.timer)} timer · "
+            f"{design.vcc:.3g} V · {esc(load)}</span><span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
+
+
+class Dashboard(w.VBox):
+    """All panels of one design on a shared :class:`~pwmkit.widgets.session.DesignSession`.
+
+    It is an :class:`ipywidgets.VBox`: display it, or put it in another layout.
+
+    Attributes
+    ----------
+    session : DesignSession
+    timing : TimingPanel; waveforms : WaveformPanel; pot_travel : PotTravelPanel;
+    spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
+    formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
+    tabs : ipywidgets.Tab
+    """
+
+    def __init__(self, design: Design | DesignSession, *, debounce: float = 0.3) -> None:
+        self.session = as_session(design)
+        s = self.session
+        self.header = w.HTML()
+        self.cautions = CautionsBox(s, collapsed=True)
+        self.timing = TimingPanel(s)
+        self.waveforms = WaveformPanel(s, show_cautions=False)
+        self.pot_travel = PotTravelPanel(s)
+        self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
+        self.loads = LoadsPanel(s, show_cautions=False)
+        self.flicker = FlickerPanel(s, show_cautions=False)
+        self.findings = FindingsPanel(s)
+        self.formulas = FormulasPanel(s, debounce=debounce)
+        self.schematic = self._schematic_panel(s, debounce)
+        pages: list[tuple[str, w.Widget]] = [
+            ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
+            ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
+        ]
+        if self.schematic is not None:
+            pages.append(("Schematic", self.schematic))
+        self.tabs = w.Tab(children=[p for _t, p in pages])
+        self.tabs.titles = tuple(t for t, _p in pages)
+        self.timing.layout.width = "560px"
+        self.timing.layout.min_width = "560px"
+        top = w.HBox([self.timing, self.waveforms], layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
+        super().__init__([self.header, self.cautions, top, self.tabs])
+        self.add_class("pwmkit-dashboard")
+        self._pages = [p for _t, p in pages]
+        self.tabs.observe(self._on_tab, names="selected_index")
+        self._on_tab({"new": self.tabs.selected_index})
+        s.subscribe(self._refresh_header)
+        self._refresh_header(s.evaluation)
+
+    @staticmethod
+    def _schematic_panel(session: DesignSession, debounce: float) -> Any:
+        try:
+            from .schematic import SchematicPanel
+
+            return SchematicPanel(session, debounce=debounce)
+        except ImportError:  # pwmkit.schematic or schemdraw not installed: leave the tab out
+            log.info("pwmkit: schematic panel left out (pwmkit.schematic or schemdraw not available)")
+            return None
+
+    def _on_tab(self, change: dict[str, Any]) -> None:
+        """Only the visible tab follows every change; hidden ones catch up when shown."""
+        try:
+            selected = change["new"]
+            for i, page in enumerate(self._pages):
+                page.set_active(i == selected)
+        except Exception:  # never raise into the widget machinery
+            log.exception("pwmkit: switching tabs failed")
+
+    def _refresh_header(self, evaluation: Any) -> None:
+        try:
+            self.header.value = _header_html(self.session.design, evaluation)
+        except Exception:  # display helper; never raise into a callback
+            log.exception("pwmkit: dashboard header failed")
+
+    # -- display ------------------------------------------------------------------------------
+    def __repr__(self) -> str:
+        t = self.session.evaluation.timing
+        return (f"Dashboard({self.session.design.name!r}: {t.frequency:.5g} Hz, duty {100 * t.duty:.4g} %; "
+                "interactive in Jupyter)")
+
+    def _repr_mimebundle_(self, **kwargs: Any) -> Any:
+        """The live widget, plus a static HTML summary for exports and viewers without a kernel.
+
+        Jupyter front ends prefer the widget; an exported notebook (or a viewer without widget
+        support) shows the summary instead of a bare repr.
+        """
+        data = super()._repr_mimebundle_(**kwargs)
+        if isinstance(data, dict):
+            try:
+                data["text/html"] = self.static_html()
+            except Exception:  # a summary must never break the display of the widget
+                log.exception("pwmkit: static dashboard summary failed")
+        return data
+
+    def static_html(self) -> str:
+        """Header, timing readout, check counts and cautions of the current design as plain HTML."""
+        from .checks import cautions_html
+        from .timing import timing_readout_html
+
+        ev = self.session.evaluation
+        return (f"<div class='pwmkit-dashboard-static'>{_header_html(self.session.design, ev)}"
+                f"{timing_readout_html(ev.timing, ev.ideal)}{cautions_html(ev.cautions, collapsed=True)}"
+                "<p style='font-size:11px;color:#5a6270'>Static summary of the interactive pwmkit dashboard; "
+                "run the notebook in Jupyter to use the controls and live plots.</p></div>")
+
+    # -- conveniences ---------------------------------------------------------------------------
+    @property
+    def design(self) -> Design:
+        """The current (last good) design."""
+        return self.session.design
+
+    @property
+    def evaluation(self) -> Any:
+        """The evaluation of the current design (no spread)."""
+        return self.session.evaluation
+
+    def flush(self) -> None:
+        """Run debounced work (schematic, formulas, spread re-run) now."""
+        for panel in (self.schematic, self.formulas, self.spread):
+            if panel is not None:
+                panel.flush()
+
+    def resync(self) -> int:
+        """Re-serialise every plot from its current state; returns the number of plots.
+
+        jupyter_bokeh draws a *new* view (for instance after the browser page was reloaded while
+        the kernel kept running) from the state the plot widget was created with; later changes
+        reach only views that already existed. Call this after a reload to bring new views up to
+        date (any edit of the design also refreshes the data, though not static labels).
+        """
+        from jupyter_bokeh import BokehModel
+
+        count = 0
+        stack: list[Any] = [self]
+        while stack:
+            widget = stack.pop()
+            if isinstance(widget, BokehModel):
+                widget.update_from_model(widget._model)
+                count += 1
+            stack.extend(getattr(widget, "children", ()) or ())
+        return count
+
+    def show_tab(self, title: str) -> None:
+        """Select a tab by its title ("Pot travel", "Spread", "Load & switch", "Flicker", "Checks",
+        "Formulas", "Schematic")."""
+        self.tabs.selected_index = list(self.tabs.titles).index(title)
+
+
+def dashboard(design: Design | DesignSession, *, debounce: float = 0.3) -> Dashboard:
+    """Build the interactive design dashboard for ``design``.
+
+    Loads BokehJS into the notebook page from the installed bokeh (no network) and returns a
+    :class:`Dashboard` — an :class:`ipywidgets.VBox` of all panels sharing one design session.
+
+    Parameters
+    ----------
+    design : Design or DesignSession
+        The starting design (it must evaluate), or a session to share with other panels.
+    debounce : float
+        Quiet time before slower work (schematic, formulas) is redone after edits [s].
+
+    Returns
+    -------
+    Dashboard
+
+    Raises
+    ------
+    DesignError
+        When the starting design cannot be evaluated.
+
+    Examples
+    --------
+    >>> from pwmkit.design import demo_designs
+    >>> from pwmkit.widgets import dashboard
+    >>> dash = dashboard(demo_designs()["grow-bar"])   # doctest: +SKIP
+    >>> dash                                            # doctest: +SKIP
+    """
+    load_bokehjs()
+    return Dashboard(design, debounce=debounce)

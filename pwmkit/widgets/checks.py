@@ -1,0 +1,123 @@
+"""Findings panel (design-rule checks with severities and remedies) and the cautions box."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import ipywidgets as w
+
+from ..design import Design
+from ._base import Panel, esc, fmt, num, safe_callback
+from .session import DesignSession, as_session
+
+__all__ = ["FindingsPanel", "CautionsBox", "findings_html", "cautions_html"]
+
+_ORDER = {"fail": 0, "warn": 1, "ok": 2}
+
+
+def _number(x: Any, unit: str) -> str:
+    if x is None:
+        return ""
+    if unit in ("%", "°C", "", "K", "points", "1"):
+        return num(x, ".4g", f" {unit}" if unit else "")
+    return fmt(x, unit, 3)
+
+
+def findings_html(findings: Any, *, show_ok: bool = True) -> str:
+    """Cards for the findings, worst first; severity as colour bar + symbol + word."""
+    from ..checks.findings import severity_style
+
+    items = sorted(findings, key=lambda f: _ORDER.get(f.severity, 3))
+    counts = {s: sum(1 for f in items if f.severity == s) for s in ("fail", "warn", "ok")}
+    summary = " · ".join(
+        f"<span class='pwmkit-count-{s}'>{severity_style(s)[1]} {n} {severity_style(s)[2]}</span>"
+        for s, n in counts.items()
+    )
+    cards = []
+    for f in items:
+        if f.severity == "ok" and not show_ok:
+            continue
+        colour, symbol, word = severity_style(f.severity)
+        value = _number(f.value, f.unit)
+        limit = _number(f.limit, f.unit)
+        numbers = f"{esc(value)}" + (f" <span style='color:#5a6270'>(limit {esc(limit)})</span>" if limit else "")
+        remedy = (f"<div class='pwmkit-remedy'><b>What to change:</b> {esc(f.remedy)}</div>"
+                  if f.remedy else "")
+        cards.append(
+            f"<div class='pwmkit-finding pwmkit-sev-{esc(f.severity)}' data-id='{esc(f.id)}' "
+            f"style='border-left:6px solid {colour};padding:4px 8px;margin:4px 0;background:#fbfbfa'>"
+            f"<div><b style='display:inline-block;min-width:6.5em'>{symbol} {esc(word).upper()}</b> "
+            f"<b>{esc(f.title)}</b> <code style='font-size:11px;color:#5a6270'>{esc(f.id)}</code>"
+            f"<span style='float:right'>{numbers}</span></div>"
+            f"<div>{esc(f.explanation)}</div>{remedy}"
+            f"<div style='font-size:11px;color:#5a6270'>basis: {esc(f.origin)}</div></div>"
+        )
+    if not cards:
+        cards.append("<div style='color:#5a6270'>No warnings and no failures.</div>")
+    return (f"<div class='pwmkit-findings'><div class='pwmkit-findings-summary' style='margin:2px 0 6px 0'>"
+            f"{summary}</div>{''.join(cards)}</div>")
+
+
+def cautions_html(cautions: Any, *, collapsed: bool = False) -> str:
+    """The safety cautions as a bordered box (empty text when there are none).
+
+    The titles of all cautions always show; with ``collapsed`` their texts open on a click.
+    """
+    items = list(cautions or ())
+    if not items:
+        return ""
+    lis = "".join(f"<li data-id='{esc(c.id)}'><b>{esc(c.title)}.</b> {esc(c.text)}</li>" for c in items)
+    titles = " · ".join(esc(c.title) for c in items)
+    return ("<div class='pwmkit-cautions' role='note' style='border:1px solid #E69F00;border-left:6px solid "
+            "#E69F00;padding:4px 10px;background:#fffaf0;font-size:12px'>"
+            f"<details{'' if collapsed else ' open'}><summary style='cursor:pointer'><b>⚠ Cautions</b> — "
+            f"{titles}. Verify on the bench; follow local codes and licensed practice.</summary>"
+            f"<ul style='margin:2px 0 2px 16px;padding:0'>{lis}</ul></details></div>")
+
+
+class CautionsBox(w.HTML):
+    """The cautions of the session's current evaluation; follows the session.
+
+    ``collapsed`` shows only the caution titles until clicked (the dashboard's header box).
+    """
+
+    def __init__(self, session: DesignSession, *, collapsed: bool = False) -> None:
+        super().__init__()
+        self.add_class("pwmkit-cautions-box")
+        self.collapsed = collapsed
+        self.session = session
+        session.subscribe(self.refresh)
+        self.refresh(session.evaluation)
+
+    def refresh(self, evaluation: Any) -> None:
+        try:
+            self.value = cautions_html(getattr(evaluation, "cautions", ()), collapsed=self.collapsed)
+        except Exception:  # a display helper must never raise into a callback
+            from ._base import log
+
+            log.exception("pwmkit: cautions box failed")
+
+
+class FindingsPanel(Panel):
+    """Design-rule findings of the current design, worst first, with remedies.
+
+    A checkbox hides the rules that passed.
+    """
+
+    title = "Design checks"
+    css_name = "findings"
+
+    def __init__(self, design: Design | DesignSession) -> None:
+        super().__init__()
+        self.session = as_session(design)
+        self.show_ok = w.Checkbox(value=False, description="also list the checks that passed", indent=False)
+        self.html = w.HTML()
+        self.set_body([self.show_ok, self.html])
+        self.show_ok.observe(lambda _change: self.refresh(self.session.evaluation), names="value")
+        self.session.subscribe(self.follow)
+        self.refresh(self.session.evaluation)
+
+    @safe_callback
+    def refresh(self, evaluation: Any) -> None:
+        self.html.value = findings_html(evaluation.findings, show_ok=self.show_ok.value)
+        self.clear_message()

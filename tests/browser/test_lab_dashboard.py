@@ -1,0 +1,152 @@
+"""The greenhouse notebook in JupyterLab, driven in headless chromium: live widgets and bokeh plots.
+
+Opens greenhouse_design.ipynb, runs all cells, waits for the notebook's own self-check marker,
+then moves the wiper slider with the keyboard and types values into the capacitor field, and
+checks that the timing readout and the plot's data in the page (read through ``Bokeh.index``)
+followed. A bad value ("10q") must show the inline message and leave the readout as it was.
+Screenshots go to test-artifacts/.
+"""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+pytestmark = pytest.mark.browser
+
+NOTEBOOK = "greenhouse_design.ipynb"
+DASH = ".pwmkit-dashboard"
+
+# Reads a named ColumnDataSource of the plots inside the first dashboard on the page.
+READ_SOURCE = """([name, column]) => {
+  if (typeof Bokeh === "undefined" || !Bokeh.index) { return null; }
+  const host = document.querySelector(".pwmkit-dashboard");
+  const views = typeof Bokeh.index.values === "function" ? Array.from(Bokeh.index.values())
+                                                          : Object.values(Bokeh.index);
+  for (const view of views) {
+    const model = view.model.document.get_model_by_name(name);
+    if (model === null) { continue; }
+    if (host !== null && !host.contains(view.el)) { continue; }
+    const data = model.data instanceof Map ? model.data.get(column) : model.data[column];
+    return Array.from(data);
+  }
+  return null;
+}"""
+
+
+def _run_all(page) -> None:
+    """Run ▸ Run All Cells; repeated once if no cell started (a kernel still connecting drops it)."""
+    for _attempt in range(3):
+        page.locator(".lm-MenuBar-itemLabel", has_text="Run").first.click()
+        page.locator(".lm-Menu-itemLabel", has_text="Run All Cells").first.click()
+        _accept_dialog(page)
+        started = page.locator(".jp-InputPrompt", has_text=re.compile(r"\[(\*|\d+)\]"))
+        try:
+            started.first.wait_for(state="attached", timeout=15_000)
+            return
+        except Exception:  # noqa: BLE001 - playwright's TimeoutError; try again
+            page.wait_for_timeout(2000)
+    raise AssertionError("Run All Cells did not start any cell")
+
+
+def _accept_dialog(page) -> None:
+    dialog = page.locator(".jp-Dialog .jp-mod-accept")
+    if dialog.count():
+        dialog.first.click()
+
+
+@pytest.fixture
+def shot_on_failure(page, artifacts, request):
+    """Save a screenshot of the page when the test fails (for the CI artefacts)."""
+    yield
+    report = getattr(request.node, "rep_call", None)
+    if report is None or report.failed:
+        page.screenshot(path=str(artifacts / f"FAILED_{request.node.name}.png"), full_page=False)
+
+
+def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot_on_failure):
+    from playwright.sync_api import expect
+
+    page.goto(lab.page_url(NOTEBOOK))
+    page.wait_for_selector(".jp-Notebook", timeout=90_000)
+    page.wait_for_timeout(1000)
+    _accept_dialog(page)
+    page.wait_for_selector(".jp-Notebook-ExecutionIndicator[data-status='idle']", timeout=90_000)
+    page.locator(".jp-StatusBar-TextItem", has_text="| Idle").first.wait_for(timeout=60_000)
+    _run_all(page)
+    # the marker printed by the last cell (not the same text in its source code), or an error
+    marker = page.locator(".jp-OutputArea-output", has_text="PWMKIT-NOTEBOOK-OK")
+    error = page.locator(".jp-OutputArea-output[data-mime-type='application/vnd.jupyter.stderr']")
+    marker.or_(error).first.wait_for(state="attached", timeout=180_000)
+    assert error.count() == 0, f"a cell failed or warned: {error.first.inner_text()[:1500]}"
+
+    dash = page.locator(DASH).first
+    dash.scroll_into_view_if_needed()
+    readout = dash.locator(".pwmkit-readout td[data-q='frequency'][data-kind='exact']")
+    duty = dash.locator(".pwmkit-readout td[data-q='duty'][data-kind='exact']")
+    expect(readout).not_to_be_empty(timeout=30_000)
+    # the plot rendered (BokehJS loaded from the installed bokeh, no "javascript error" box)
+    expect(dash.locator(".pwmkit-plot-waveforms canvas").first).to_be_visible(timeout=30_000)
+    v_cap = page.wait_for_function(f"() => ({READ_SOURCE})(['pwmkit-waveform', 'v_cap'])", timeout=30_000)
+    v_cap_0 = v_cap.json_value()
+    assert v_cap_0 and len(v_cap_0) > 100
+    page.screenshot(path=str(artifacts / "lab_dashboard_after_run_all.png"), full_page=False)
+
+    # 1 — the wiper slider, by keyboard on its handle
+    duty_0, freq_0 = duty.inner_text(), readout.inner_text()
+    handle = dash.locator(".pwmkit-wiper .noUi-handle").first
+    handle.scroll_into_view_if_needed()
+    handle.focus()
+    for _ in range(12):
+        page.keyboard.press("ArrowRight")
+    expect(duty).not_to_have_text(duty_0, timeout=20_000)
+    page.wait_for_function(
+        f"(old) => {{ const v = ({READ_SOURCE})(['pwmkit-waveform', 'v_cap']);"
+        " return v !== null && JSON.stringify(v) !== JSON.stringify(old); }",
+        arg=v_cap_0, timeout=20_000)
+    marker = page.evaluate(f"({READ_SOURCE})(['pwmkit-pot-marker', 'wiper'])")
+    assert marker is not None and marker[0] > 0.5
+    dash.locator(".pwmkit-plot-waveforms").first.screenshot(path=str(artifacts / "lab_waveforms_after_slider.png"))
+
+    # 2 — text entry in engineering notation
+    c_field = dash.locator(".pwmkit-entry-c input").first
+    c_field.scroll_into_view_if_needed()
+    freq_1 = readout.inner_text()
+    t_1 = page.evaluate(f"({READ_SOURCE})(['pwmkit-waveform', 't'])")
+    c_field.fill("3n3")
+    c_field.press("Enter")
+    expect(readout).not_to_have_text(freq_1, timeout=20_000)
+    expect(c_field).to_have_value("3.3 nF", timeout=10_000)
+    page.wait_for_function(
+        f"(old) => {{ const t = ({READ_SOURCE})(['pwmkit-waveform', 't']);"
+        " return t !== null && t[t.length - 1] !== old[old.length - 1]; }",
+        arg=t_1, timeout=20_000)
+    assert freq_0 != readout.inner_text()
+
+    # 3 — a bad value: inline message in the timing panel, readout and plot unchanged
+    good = readout.inner_text()
+    t_good = page.evaluate(f"({READ_SOURCE})(['pwmkit-waveform', 't'])")
+    c_field.fill("10q")
+    c_field.press("Enter")
+    message = dash.locator(".pwmkit-timing .pwmkit-msg")
+    expect(message).to_contain_text("10q", timeout=20_000)
+    expect(message).to_be_visible()
+    page.wait_for_timeout(500)
+    assert readout.inner_text() == good
+    assert page.evaluate(f"({READ_SOURCE})(['pwmkit-waveform', 't'])") == t_good
+    dash.locator(".pwmkit-timing").first.screenshot(path=str(artifacts / "lab_timing_bad_value.png"))
+
+    # 4 — the schematic (debounced redraw on the kernel's event loop) follows a slider move
+    dash.locator(".lm-TabBar-tabLabel", has_text="Schematic").first.click()
+    svg = dash.locator(".pwmkit-schematic-svg svg").first
+    expect(svg).to_be_visible(timeout=20_000)
+    wiper_text = dash.locator(".pwmkit-wiper .widget-readout").first.inner_text()
+    label = f"wiper {round(100 * float(wiper_text)):g} %"
+    expect(dash.locator(".pwmkit-schematic-svg")).to_contain_text(label, timeout=20_000)
+    handle.focus()
+    for _ in range(4):
+        page.keyboard.press("ArrowLeft")
+    expect(dash.locator(".pwmkit-schematic-svg")).not_to_contain_text(label, timeout=20_000)
+    dash.locator(".pwmkit-schematic-svg").first.screenshot(path=str(artifacts / "lab_schematic.png"))
+    page.screenshot(path=str(artifacts / "lab_dashboard_final.png"), full_page=False)
