@@ -624,7 +624,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
     >>> from pwmkit.design import demo_designs
     >>> ev = evaluate(demo_designs()["fan"], spread=False)
     >>> round(ev.timing.frequency), ev.motor.mode
-    (24495, 'continuous')
+    (29871, 'continuous')
     """
     from . import cautions as _cautions
     from .checks import Findings, run_checks

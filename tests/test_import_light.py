@@ -21,3 +21,12 @@ def test_no_output_notebook_side_effect_on_import() -> None:
     code = "import pwmkit, sys; print('bokeh.io' in sys.modules)"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+def test_every_lazy_submodule_exists() -> None:
+    import importlib
+
+    import pwmkit
+
+    for name in sorted(pwmkit._LAZY):
+        importlib.import_module(f"pwmkit.{name}")
