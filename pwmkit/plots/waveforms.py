@@ -89,7 +89,7 @@ class WaveformPlot:
         led : LedDrive, optional
             LED drive: the total current flows while the output is high.
         motor : MotorCurrent, optional
-            Motor current at its turning points (see :func:`pwmkit.plots.loads.motor_current_trace`).
+            Steady-state motor current (sampled by :func:`pwmkit.plots.loads.motor_current_trace`).
         cycles : float
             Periods shown.
         """
@@ -108,7 +108,7 @@ class WaveformPlot:
             label = f"LED current, all {led.n_parallel} string(s)"
         elif motor is not None:
             t, i = motor_current_trace(timing, motor, cycles=cycles)
-            label = f"motor current ({motor.mode}; turning points joined by straight lines)"
+            label = f"motor current ({motor.mode} conduction, exact steady state)"
         else:
             self.current.data = {"t": [], "i": []}
             self.bottom.visible = False
