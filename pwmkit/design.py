@@ -386,6 +386,37 @@ class Design:
         """Plain nested dict (JSON/TOML-ready; None values kept)."""
         return dataclasses.asdict(self)
 
+    def _repr_html_(self) -> str:
+        """Notebook display: the part values and the annotated schematic.
+
+        The schematic comes from :func:`pwmkit.schematic.for_design`, imported only here (a
+        display hook; the design layer does not otherwise depend on the drawing). If it cannot
+        be drawn (schemdraw missing, or a timing that does not oscillate) the table is shown
+        with a one-line note instead.
+        """
+        import html
+
+        from .values import format_value
+
+        t = self.timing
+        rows = [("topology", f"{t.topology}, {t.timer} timer"), ("supply", format_value(self.vcc, "V")),
+                ("ra / rb", f"{format_value(t.ra, 'Ω')} / {format_value(t.rb, 'Ω')}"),
+                ("timing capacitor", f"{format_value(t.c, 'F')} ({t.c_dielectric})")]
+        if t.topology == "pot":
+            rows.append(("potentiometer", f"{format_value(t.pot, 'Ω')}, wiper {100 * t.wiper:.0f} %"))
+        if self.load is not None:
+            rows.append(("load", self.load.kind))
+        body = "".join(f"<tr><th style='text-align:left;padding-right:1em'>{html.escape(k)}</th>"
+                       f"<td>{html.escape(v)}</td></tr>" for k, v in rows)
+        try:
+            from .schematic import for_design
+
+            drawing = for_design(self).svg
+        except (DesignError, ImportError) as exc:
+            drawing = f"<p><em>schematic not drawn: {html.escape(str(exc))}</em></p>"
+        return (f"<div class='pwmkit-design'><strong>{html.escape(self.name)}</strong>"
+                f"<table>{body}</table>{drawing}</div>")
+
 
 def demo_designs() -> dict[str, Design]:
     """The demo scenario: a 12 V greenhouse propagator (invented values, for demos only).

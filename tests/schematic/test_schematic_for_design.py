@@ -29,3 +29,11 @@ def test_motor_with_zener_clamp_draws_the_zener() -> None:
     d = d.replace(freewheel=Freewheel(diode="schottky-1a", clamp="zener", v_zener=24.0))
     s = for_design(d)
     assert s.of_kind("zener")
+
+
+def test_rich_display_of_a_design_shows_its_schematic() -> None:
+    d = demo_designs()["fan"]
+    page = d._repr_html_()
+    assert "<svg" in page and "820 pF" in page
+    evil = d.replace(name="<script>alert(1)</script>")
+    assert "<script>" not in evil._repr_html_()
