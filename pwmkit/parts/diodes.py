@@ -510,11 +510,6 @@ def get_diode(name_or_family: str | DiodeFamily) -> DiodeFamily:
     >>> get_diode("Schottky_1A").i_f_avg
     1.0
     """
-    if isinstance(name_or_family, DiodeFamily):
-        return name_or_family
-    if isinstance(name_or_family, str):
-        key = name_or_family.strip().lower().replace("_", "-").replace(" ", "-")
-        if key in DIODES:
-            return DIODES[key]
-    raise DesignError(f"diode: {name_or_family!r} is not a known diode family; "
-                      f"choose one of {', '.join(DIODES)} or pass a DiodeFamily")
+    from ._registry import lookup
+
+    return lookup(name_or_family, DIODES, DiodeFamily, "diode")

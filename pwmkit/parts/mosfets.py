@@ -299,11 +299,6 @@ def get_mosfet(name_or_family: str | MosfetFamily) -> MosfetFamily:
     >>> get_mosfet("logic_level_30v").v_gs_min_rated
     4.5
     """
-    if isinstance(name_or_family, MosfetFamily):
-        return name_or_family
-    if isinstance(name_or_family, str):
-        key = name_or_family.strip().lower().replace("_", "-").replace(" ", "-")
-        if key in MOSFETS:
-            return MOSFETS[key]
-    raise DesignError(f"mosfet: {name_or_family!r} is not a known MOSFET family; "
-                      f"choose one of {', '.join(MOSFETS)} or pass a MosfetFamily")
+    from ._registry import lookup
+
+    return lookup(name_or_family, MOSFETS, MosfetFamily, "mosfet", "MOSFET")

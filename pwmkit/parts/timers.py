@@ -30,7 +30,6 @@ from typing import Any, Literal
 import numpy as np
 
 from .._validate import quantity
-from ..errors import DesignError
 
 __all__ = ["TimerFamily", "BIPOLAR", "CMOS", "TIMERS", "get_timer"]
 
@@ -255,8 +254,6 @@ TIMERS: dict[str, TimerFamily] = {"bipolar": BIPOLAR, "cmos": CMOS}
 
 def get_timer(timer: str | TimerFamily) -> TimerFamily:
     """Return a timer family by name (``"bipolar"`` or ``"cmos"``) or pass one through."""
-    if isinstance(timer, TimerFamily):
-        return timer
-    if isinstance(timer, str) and timer.strip().lower() in TIMERS:
-        return TIMERS[timer.strip().lower()]
-    raise DesignError(f"timer: {timer!r} is not a known timer family; allowed: {', '.join(TIMERS)}")
+    from ._registry import lookup
+
+    return lookup(timer, TIMERS, TimerFamily, "timer")

@@ -152,25 +152,11 @@ def _circuit(design: Design, evaluation: Any) -> str:
 
 def _schematic(design: Design, evaluation: Any) -> str:
     try:
-        from ..schematic import draw
+        from ..schematic import for_design
     except ImportError:  # pragma: no cover - the schematic package is optional
         return ""
-    t = design.timing
-    load = design.load
-    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass, r_cv=t.r_cv, vctl=t.vctl)
-    if t.topology == "pot":
-        kw.update(pot=t.pot, wiper=t.wiper)
-    if load is not None:
-        kw.update(load=load.kind, r_gate=design.switch.r_gate, v_load=design.v_load, clamp=design.freewheel.clamp)
-        if isinstance(load, LedLoad):
-            kw.update(n_series=load.n_series, n_parallel=load.n_parallel, r_led=load.r_series)
-        if design.freewheel.clamp == "zener":
-            kw["v_zener"] = design.freewheel.v_zener
-    tm = evaluation.timing
-    kw["annotations"] = {"t_high": float(tm.t_high), "t_low": float(tm.t_low), "frequency": float(tm.frequency),
-                         "duty": float(tm.duty), "r_charge": float(tm.r_charge), "r_discharge": float(tm.r_discharge)}
     try:
-        svg = draw(t.topology, **kw).svg
+        svg = for_design(design, timing=evaluation.timing).svg
     except (DesignError, ImportError) as exc:
         return f"<p class='note'>Schematic not drawn: {_e(exc)}</p>"
     start = svg.find("<svg")

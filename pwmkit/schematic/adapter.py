@@ -17,7 +17,7 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     ----------
     design : pwmkit.design.Design
     annotate : bool
-        Write the computed t_high, t_low, frequency and duty beside the paths.
+        Write the computed t_high, t_low, path resistances, frequency and duty beside the paths.
     timing : AstableResult, optional
         Already computed timing (saves a recomputation); default ``design.astable()``.
 
@@ -46,5 +46,6 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
                 kw["v_zener"] = design.freewheel.v_zener
     if annotate:
         r = timing if timing is not None else design.astable()
-        kw["annotations"] = {"t_high": r.t_high, "t_low": r.t_low, "frequency": r.frequency, "duty": r.duty}
+        kw["annotations"] = {k: float(getattr(r, k)) for k in ("t_high", "t_low", "frequency", "duty", "r_charge",
+                                                                 "r_discharge")}
     return draw(t.topology, **kw)

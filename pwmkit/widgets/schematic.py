@@ -6,53 +6,18 @@ from typing import Any
 
 import ipywidgets as w
 
-from ..design import Design, LedLoad, MotorLoad
+from ..design import Design
 from ._base import Debouncer, Panel, safe_callback
 from .session import DesignSession, as_session
 
-__all__ = ["SchematicPanel", "draw_arguments"]
-
-
-def draw_arguments(design: Design, timing: Any = None) -> dict[str, Any]:
-    """Keyword arguments of :func:`pwmkit.schematic.draw` for a design (and its timing result).
-
-    Only fields are copied; the computed timing (when given) is written beside the paths.
-    """
-    t = design.timing
-    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass)
-    if t.topology == "pot":
-        kw.update(pot=t.pot, wiper=t.wiper)
-    if t.vctl is not None:
-        kw["vctl"] = t.vctl
-    elif t.r_cv is not None:
-        kw["r_cv"] = t.r_cv
-    load = design.load
-    if isinstance(load, LedLoad):
-        kw.update(load="led", n_series=load.n_series, n_parallel=load.n_parallel, r_led=load.r_series,
-                  r_gate=design.switch.r_gate)
-    elif isinstance(load, MotorLoad):
-        kw.update(load="motor", r_gate=design.switch.r_gate, clamp=design.freewheel.clamp)
-        if design.freewheel.clamp == "zener":
-            kw["v_zener"] = design.freewheel.v_zener
-    if design.v_load is not None and (load is not None):
-        kw["v_load"] = design.v_load
-    if timing is not None:
-        kw["annotations"] = {k: getattr(timing, k) for k in ("t_high", "t_low", "frequency", "duty")}
-    return kw
+__all__ = ["SchematicPanel", "schematic_svg"]
 
 
 def schematic_svg(design: Design, timing: Any = None) -> str:
-    """SVG text of the design's schematic (uses ``pwmkit.schematic.for_design`` when it exists)."""
-    from .. import schematic
+    """SVG text of the design's schematic (:func:`pwmkit.schematic.for_design`)."""
+    from ..schematic import for_design
 
-    for_design = getattr(schematic, "for_design", None)
-    if for_design is not None:
-        try:
-            return for_design(design).svg
-        except TypeError:  # an adapter with another signature: fall back to the plain drawing call
-            pass
-    kw = draw_arguments(design, timing)
-    return schematic.draw(design.timing.topology, **kw).svg
+    return for_design(design, timing=timing).svg
 
 
 def _fit(svg: str) -> str:
