@@ -80,23 +80,20 @@ def quantity(
             raise DesignError(f"{name}: {_describe(value)} is not a number or array of numbers ({exc})") from None
         if arr.ndim == 0:
             arr = float(arr)
-    bad_finite = ~np.isfinite(arr)
-    if np.any(bad_finite):
-        first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(bad_finite).ravel())])
+    a = np.asarray(arr)
+    # fast path: two reductions (min and max propagate NaN and show ±inf, so both finite means every
+    # element is finite); the element-wise masks are built only to report an error
+    lowest, highest = (float(a.min()), float(a.max())) if a.size else (0.0, 0.0)
+    if not (math.isfinite(lowest) and math.isfinite(highest)):
+        first = float(a.ravel()[np.argmax(~np.isfinite(a).ravel())])
         raise DesignError(f"{name}: {first!r} is not a finite number; give a finite value in {unit or 'SI units'}")
     u = f" {unit}" if unit else ""
-    if minimum is not None:
-        low = arr < minimum if min_inclusive else arr <= minimum
-        if np.any(low):
-            first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(low).ravel())])
-            rel = ">=" if min_inclusive else ">"
-            raise DesignError(f"{name}: {first:g}{u} is out of range; allowed {name} {rel} {minimum:g}{u}")
-    if maximum is not None:
-        high = arr > maximum if max_inclusive else arr >= maximum
-        if np.any(high):
-            first = float(np.asarray(arr).ravel()[np.argmax(np.asarray(high).ravel())])
-            rel = "<=" if max_inclusive else "<"
-            raise DesignError(f"{name}: {first:g}{u} is out of range; allowed {name} {rel} {maximum:g}{u}")
+    if minimum is not None and a.size and (lowest < minimum or (not min_inclusive and lowest <= minimum)):
+        rel = ">=" if min_inclusive else ">"
+        raise DesignError(f"{name}: {lowest:g}{u} is out of range; allowed {name} {rel} {minimum:g}{u}")
+    if maximum is not None and a.size and (highest > maximum or (not max_inclusive and highest >= maximum)):
+        rel = "<=" if max_inclusive else "<"
+        raise DesignError(f"{name}: {highest:g}{u} is out of range; allowed {name} {rel} {maximum:g}{u}")
     return arr
 
 

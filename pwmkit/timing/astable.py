@@ -187,8 +187,8 @@ def _inputs(topology: str, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any, wiper: 
 
 def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
     v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
-    bad = np.logical_not(p.v_charge > v_upper)
-    if np.any(bad):
+    if not np.all(p.v_charge > v_upper):
+        bad = np.logical_not(p.v_charge > v_upper)
         vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
         what = f"supply {vcc:.4g} V" if topology == "classic" else f"supply {vcc:.4g} V minus diode drop {vd:.4g} V"
         raise DesignError(
@@ -196,8 +196,8 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
             f"below it and the output latches high. Raise vcc or lower vctl"
             + ("" if topology == "classic" else " (or use a lower-drop diode)")
         )
-    bad = np.logical_not(p.v_discharge < v_lower)
-    if np.any(bad):
+    if not np.all(p.v_discharge < v_lower):
+        bad = np.logical_not(p.v_discharge < v_lower)
         vdis, vl = _first_bad(bad, p.v_discharge, v_lower)
         raise DesignError(
             f"vcc: the discharge path heads for {vdis:.4g} V (switch saturation/on-resistance"
@@ -205,8 +205,7 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
             + f"), which cannot fall to the lower threshold {vl:.4g} V; the output latches low. "
             "Raise vcc or vctl, or lower the discharge-path drops"
         )
-    bad = np.logical_not(p.r_discharge > 0)
-    if np.any(bad):
+    if not np.all(p.r_discharge > 0):
         raise DesignError(
             "rb: the discharge path resistance is 0 Ω (rb = 0 with the wiper at the discharge end and an "
             "ideal discharge switch): the discharge pin would short the capacitor. Add an end resistor rb > 0"
@@ -311,7 +310,9 @@ def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = Non
         period = t_high + t_low
         frequency = 1.0 / period
         duty = t_high / period
-    if not (np.all(np.isfinite(frequency)) and np.all(np.isfinite(duty)) and np.all(period > 0)):
+    # t_high, t_low >= 0 by construction, so a finite period well above zero makes frequency and
+    # duty finite too (one reduction instead of three)
+    if not (np.isfinite(period).all() and (np.size(period) == 0 or np.min(period) > 1e-300)):
         raise DesignError("timing: the design gives a non-finite period (component values too extreme for "
                           "double precision); check the orders of magnitude of ra, rb, pot and c")
     fam = q["timer"]
