@@ -16,8 +16,7 @@ The names below are re-exported lazily so that ``import pwmkit.loads`` stays che
 
 from __future__ import annotations
 
-import importlib
-from typing import Any
+from .._lazy import lazy_exports
 
 _EXPORTS = {
     # contract names (see issue: load side)
@@ -47,11 +46,6 @@ __all__ = sorted(_EXPORTS)
 # attribute stays the function whichever import happens first (numpy-only, cheap).
 from .lightness import lightness, luminance_for_lightness  # noqa: E402, F401
 
-
-def __getattr__(name: str) -> Any:
-    module = _EXPORTS.get(name)
-    if module is not None:
-        return getattr(importlib.import_module(f".{module}", __name__), name)
-    if name in {"led", "lightness", "flicker", "motor", "mosfet", "diode", "thermal"}:
-        return importlib.import_module(f".{name}", __name__)
-    raise AttributeError(f"module 'pwmkit.loads' has no attribute {name!r}")
+__getattr__, __dir__ = lazy_exports(
+    __name__, _EXPORTS, ("led", "lightness", "flicker", "motor", "mosfet", "diode", "thermal"), globals()
+)

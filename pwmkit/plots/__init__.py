@@ -15,8 +15,7 @@ here calls ``output_notebook``; :func:`pwmkit.widgets.dashboard` does, once per 
 
 from __future__ import annotations
 
-import importlib
-from typing import Any
+from .._lazy import lazy_exports
 
 _EXPORTS = {
     "WaveformPlot": "waveforms",
@@ -35,12 +34,4 @@ _EXPORTS = {
 __all__ = sorted(_EXPORTS)
 
 
-def __getattr__(name: str) -> Any:
-    module = _EXPORTS.get(name)
-    if module is not None:
-        return getattr(importlib.import_module(f".{module}", __name__), name)
-    raise AttributeError(f"module 'pwmkit.plots' has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_EXPORTS))
+__getattr__, __dir__ = lazy_exports(__name__, _EXPORTS, namespace=globals())

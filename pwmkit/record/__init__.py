@@ -16,8 +16,7 @@ Everything is imported on first use, so ``import pwmkit.record`` stays light.
 
 from __future__ import annotations
 
-import importlib
-from typing import Any
+from .._lazy import lazy_exports
 
 _EXPORTS = {
     "load_design": "designfile",
@@ -48,12 +47,4 @@ _EXPORTS = {
 __all__ = sorted(_EXPORTS)
 
 
-def __getattr__(name: str) -> Any:
-    module = _EXPORTS.get(name)
-    if module is not None:
-        return getattr(importlib.import_module(f".{module}", __name__), name)
-    raise AttributeError(f"module 'pwmkit.record' has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_EXPORTS))
+__getattr__, __dir__ = lazy_exports(__name__, _EXPORTS, namespace=globals())

@@ -31,8 +31,7 @@ Importing this package imports ipywidgets; bokeh is imported when a plot panel i
 
 from __future__ import annotations
 
-import importlib
-from typing import Any
+from .._lazy import lazy_exports
 
 _EXPORTS = {
     "dashboard": "board",
@@ -55,12 +54,4 @@ _EXPORTS = {
 __all__ = sorted(_EXPORTS)
 
 
-def __getattr__(name: str) -> Any:
-    module = _EXPORTS.get(name)
-    if module is not None:
-        return getattr(importlib.import_module(f".{module}", __name__), name)
-    raise AttributeError(f"module 'pwmkit.widgets' has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_EXPORTS))
+__getattr__, __dir__ = lazy_exports(__name__, _EXPORTS, namespace=globals())
