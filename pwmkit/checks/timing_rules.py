@@ -119,6 +119,8 @@ def discharge_current(design: Any, ev: Any) -> Any:
     """
     fam = get_timer(design.timing.timer)
     t = ev.corners.timing_max if ev.corners.timing_max is not None else ev.timing
+    if getattr(ev, "two_timer", None) is not None:  # the clock astable (the monostable is in two_timer_rules)
+        t = ev.two_timer.clock
     vcc = float(np.max(t.vcc))
     vsat = design.timing.vsat if design.timing.vsat is not None else fam.vsat
     i_ra = (vcc - vsat) / design.timing.ra
@@ -177,6 +179,8 @@ def timing_bias_current(design: Any, ev: Any) -> Any:
     """
     fam = get_timer(design.timing.timer)
     t = ev.corners.timing_min if ev.corners.timing_min is not None else ev.timing
+    if getattr(ev, "two_timer", None) is not None:  # the clock astable (the monostable is in two_timer_rules)
+        t = ev.two_timer.clock
     i_b = fam.i_threshold_max
     charge = i_b * np.asarray(t.r_charge) / (np.asarray(t.v_charge) - np.asarray(t.v_upper))
     dis = i_b * np.asarray(t.r_discharge) / (np.asarray(t.v_lower) - np.asarray(t.v_discharge))
@@ -213,6 +217,10 @@ def duty_range(design: Any, ev: Any) -> Any:
     if req.duty_min is None and req.duty_max is None and req.duty is None:
         return None
     title = "Duty range reachable"
+    if design.timing.topology == "two-timer":
+        from .two_timer_rules import duty_range_two_timer
+
+        return duty_range_two_timer(design, ev, title)
     if design.timing.topology == "pot":
         lo, hi = _travel_range(ev, "duty")
         want_lo = req.duty_min if req.duty_min is not None else (req.duty if req.duty is not None else lo)

@@ -273,8 +273,9 @@ class ClosedLoop:
     ----------
     t_element_c : closed-loop steady element temperature [°C]
     duty : duty there [1]; vctl : control-pin voltage there [V]
-    t_full_c : temperature below which the control asks for more than the reachable maximum duty [°C]
-    t_off_c : temperature above which only the minimum pulse is left [°C]
+    t_full_c : temperature below which the control asks for more than the reachable maximum duty
+        (searched within ambient − 80 K … full-power temperature + 80 K, clamped to it) [°C]
+    t_off_c : temperature above which only the minimum pulse is left (same bracket) [°C]
     t_open_full_c : element temperature at full duty with no control (the fault case: a shorted
         switch or a lost sensor) [°C]
     gain : loop gain at DC, ``−∂T/∂T_sensor`` around the operating point [1]
@@ -311,6 +312,23 @@ class ClosedLoop:
 
     def _repr_html_(self) -> str:
         return result_html(self, self._UNITS, "closed loop")
+
+
+def _crossing(vctl_of_t: Any, level: float, t_lo: float, t_hi: float) -> float:
+    """Temperature [°C] where a falling ``vctl_of_t`` crosses ``level`` (clamped to the bracket ends)."""
+    if not math.isfinite(level):
+        return t_lo if level > 0 else t_hi
+    if float(vctl_of_t(t_lo)) <= level:
+        return t_lo
+    if float(vctl_of_t(t_hi)) >= level:
+        return t_hi
+    for _ in range(50):
+        mid = 0.5 * (t_lo + t_hi)
+        if float(vctl_of_t(mid)) > level:
+            t_lo = mid
+        else:
+            t_hi = mid
+    return 0.5 * (t_lo + t_hi)
 
 
 def phase_margin(gain: float, tau1: float, tau2: float, delay: float) -> tuple[float, float]:
@@ -379,7 +397,7 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
     lo, hi = ta, t_max
     if g(lo) >= 0:  # pragma: no cover - only with a zero-power heater
         lo = hi = ta
-    for _ in range(80):
+    for _ in range(56):
         mid = 0.5 * (lo + hi)
         if g(mid) > 0:
             hi = mid
@@ -401,11 +419,11 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
     tau_p = float(q["c_th"]) * r_eff
     delay = 1.0 / float(q["f"])
     fc, pm = phase_margin(gain, tau_p, tau_s, delay)
-    lows = [t for t in np.linspace(ta - 60.0, t_full + 60.0, 601) if duty_at(float(t))[0] < d_hi]
-    highs = [t for t in np.linspace(ta - 60.0, t_full + 60.0, 601) if duty_at(float(t))[0] > d_lo]
+    t_full = _crossing(vctl_of_t, v_hi, ta - 80.0, t_full + 80.0)
+    t_off = _crossing(vctl_of_t, v_lo, ta - 80.0, ta + rise_at(1.0) + 80.0)
     return ClosedLoop(
-        t_element_c=t_ss, duty=d_ss, vctl=v_ss, t_full_c=float(lows[0]) if lows else math.inf,
-        t_off_c=float(highs[-1]) if highs else -math.inf, t_open_full_c=t_full, gain=gain,
+        t_element_c=t_ss, duty=d_ss, vctl=v_ss, t_full_c=t_full, t_off_c=t_off, t_open_full_c=ta + rise_at(1.0),
+        gain=gain,
         droop=1.0 / (1.0 + gain), crossover=fc, phase_margin_deg=pm, stable=pm > 0.0, tau_plant=tau_p,
         tau_sensor=tau_s, delay=delay, saturated=sat or d_ss <= d_lo or d_ss >= d_hi,
     )

@@ -1,0 +1,204 @@
+"""The two-timer fixed-frequency PWM as a design (design layer): output timing, spread, worst case.
+
+A :class:`~pwmkit.design.Design` with ``timing.topology = "two-timer"`` is a classic astable clock
+(``ra``, ``rb``, ``c``) triggering a monostable (``r_mono``, ``c_mono``) whose control pin is
+driven by a control voltage ``vctl_min … vctl_max`` (through ``r_ctl_source`` against the
+internal divider). This module turns such a design into model calls
+(:func:`pwmkit.timing.two_timer_pwm`, :func:`~pwmkit.timing.control_range`) and gives its
+tolerance spread:
+
+- Monte Carlo: every resistor within ``r_tolerance``, every capacitor within ``c_tolerance``
+  (uniform), the supply uniform over ``vcc_min … vcc_max``, the control voltage held at its
+  nominal value (a fixed external source); samples whose pulse does not end before the next
+  clock trigger count as failures;
+- worst case: all 2^k corners of the same box, one vectorised evaluation (the duty is monotonic
+  in every parameter of the log law, the frequency in every clock parameter, so corners bound it).
+
+References
+----------
+.. [1] JCGM 101:2008, *Propagation of distributions using a Monte Carlo method*, §5–§7 (from memory).
+"""
+
+from __future__ import annotations
+
+import itertools
+from typing import Any
+
+import numpy as np
+
+from .errors import DesignError
+
+__all__ = ["output_timing", "pin_voltage", "control_range_of", "monte_carlo_two_timer", "worst_case_two_timer",
+           "as_astable_result"]
+
+
+def pin_voltage(design: Any, v_source: Any, vcc: Any) -> Any:
+    """Control-pin voltage of a two-timer design for a source voltage at supply ``vcc`` [V]."""
+    return design.timing.control_pin_voltage(v_source, vcc)
+
+
+def as_astable_result(p: Any, design: Any) -> Any:
+    """The PWM output of a :class:`~pwmkit.timing.TwoTimerPwm` as an :class:`~pwmkit.timing.AstableResult`.
+
+    ``t_high`` is the monostable pulse, ``t_low`` the rest of the clock period; the thresholds are
+    the monostable's (upper = control-pin voltage, lower = its start level), the charge path is
+    ``r_mono`` toward the supply and the discharge path the switch toward the rest level.
+    """
+    from .timing import AstableResult
+    from .timing.monostable import discharge_resistance
+
+    return AstableResult(
+        topology="two-timer", timer=p.timer, t_high=p.t_high, t_low=p.period - p.t_high, period=p.period,
+        frequency=p.frequency, duty=p.duty, v_upper=p.vctl, v_lower=p.v_start, v_charge=p.vcc,
+        v_discharge=p.v_rest, r_charge=design.timing.r_mono, r_discharge=discharge_resistance(design.timing.timer),
+        c=design.timing.c_mono, vcc=p.vcc,
+    )
+
+
+def two_timer_at(design: Any, vcc: float, v_source: Any) -> Any:
+    """:class:`~pwmkit.timing.TwoTimerPwm` of a design at a supply and control (source) voltage."""
+    from .timing import two_timer_pwm
+
+    return two_timer_pwm(vctl=pin_voltage(design, v_source, vcc), **design.timing.two_timer_kwargs(vcc))
+
+
+def output_timing(design: Any, vcc: float, v_source: Any) -> Any:
+    """PWM output timing of a two-timer design as an AstableResult (see :func:`as_astable_result`)."""
+    return as_astable_result(two_timer_at(design, vcc, v_source), design)
+
+
+def control_range_of(design: Any, vcc: float | None = None) -> Any:
+    """:class:`~pwmkit.timing.ControlRange` over the design's control range (pin voltages)."""
+    from .timing import control_range
+
+    t = design.timing
+    vcc = design.vcc if vcc is None else vcc
+    lo = float(pin_voltage(design, t.vctl_min, vcc))
+    hi = float(pin_voltage(design, t.vctl_max, vcc))
+    return control_range(vctl_low=lo, vctl_high=hi, **t.two_timer_kwargs(vcc))
+
+
+_KEYS = ("ra", "rb", "c", "r_mono", "c_mono")
+
+
+def _box(design: Any) -> list[tuple[str, float, float]]:
+    t = design.timing
+    out = [(k, -t.r_tolerance if k in ("ra", "rb", "r_mono") else -t.c_tolerance,
+            t.r_tolerance if k in ("ra", "rb", "r_mono") else t.c_tolerance) for k in _KEYS]
+    return out
+
+
+def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray, v_source: float) -> tuple[
+        np.ndarray, np.ndarray, np.ndarray, dict[str, int]]:
+    """(frequency, duty, ok, reasons) of many design points, failures masked instead of raised."""
+    from .timing import astable, two_timer_pwm
+    from .timing.monostable import start_level
+    from .timing.monostable_symbolic import monostable_numeric
+
+    t = design.timing
+    vctl = np.asarray(pin_voltage(design, v_source, vcc), dtype=float) * np.ones_like(vcc)
+    clk = astable("classic", ra=values["ra"], rb=values["rb"], c=values["c"], vcc=vcc, timer=t.timer,
+                  **({} if t.vsat is None else {"vsat": t.vsat}))
+    v_rest = start_level(values["r_mono"], vcc, t.timer) if t.vsat is None else np.full_like(vcc, t.vsat)
+    with np.errstate(all="ignore"):
+        w = monostable_numeric()[0](values["r_mono"], values["c_mono"], vcc, vctl, v_rest)
+    reach = vctl < vcc
+    fits = np.where(reach, np.maximum(w, clk.t_low) < clk.period, False)
+    ok = reach & fits
+    reasons = {}
+    if np.any(~reach):
+        reasons["control voltage at or above the supply"] = int(np.sum(~reach))
+    if np.any(reach & ~fits):
+        reasons["pulse longer than the clock period (skips cycles)"] = int(np.sum(reach & ~fits))
+    freq = np.full(vcc.shape, np.nan)
+    duty = np.full(vcc.shape, np.nan)
+    if np.any(ok):
+        kw = dict(timer=t.timer, **({} if t.vsat is None else {"vsat": t.vsat}))
+        p = two_timer_pwm(ra=values["ra"][ok], rb=values["rb"][ok], c=values["c"][ok], r_mono=values["r_mono"][ok],
+                          c_mono=values["c_mono"][ok], vcc=vcc[ok], vctl=vctl[ok], **kw)
+        freq[ok], duty[ok] = p.frequency, p.duty
+    return freq, duty, ok, reasons
+
+
+def monte_carlo_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, frequency_window: Any = None,
+                          duty_window: Any = None, bins: int = 50) -> Any:
+    """Monte Carlo spread of the two-timer PWM's frequency and duty at the nominal control voltage.
+
+    Returns a :class:`pwmkit.tolerance.SpreadResult` (topology "two-timer"); failures (pulse longer
+    than the period) are counted in ``n_failed``, never returned as numbers.
+    """
+    from .tolerance import Histogram, SpreadResult, _histogram
+
+    if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or not 1 <= n <= 20_000_000:
+        raise DesignError(f"n: {n!r} is not allowed; give an integer 1 … 20000000")
+    t = design.timing
+    rng = np.random.default_rng(seed)
+    box = _box(design)
+    values = {k: getattr(t, k) * (1.0 + rng.uniform(lo, hi, int(n))) for k, lo, hi in box}
+    lo, hi = design.supply_range
+    vcc = rng.uniform(lo, hi, int(n)) if hi > lo else np.full(int(n), design.vcc)
+    v_src = t.vctl_nominal
+    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, v_src)
+    n_failed = int(n - ok.sum())
+    if n_failed == n:
+        raise DesignError(f"monte_carlo: none of the {n} samples works ({', '.join(reasons)})")
+    freq, duty = freq[ok], duty[ok]
+    nominal = output_timing(design, design.vcc, v_src)
+    yield_ = None
+    if frequency_window is not None or duty_window is not None:
+        inside = np.ones(freq.shape, dtype=bool)
+        if frequency_window is not None:
+            inside &= (freq >= frequency_window[0]) & (freq <= frequency_window[1])
+        if duty_window is not None:
+            inside &= (duty >= duty_window[0]) & (duty <= duty_window[1])
+        yield_ = float(inside.sum()) / n
+    fc, fe = _histogram(freq, bins)
+    dc, de = _histogram(duty, bins)
+    sources = tuple(f"{k}: {100 * a:+.4g} … {100 * b:+.4g} % (relative), uniform" for k, a, b in box)
+    if hi > lo:
+        sources += (f"supply: {lo:g} … {hi:g} V uniform",)
+    return SpreadResult(
+        topology="two-timer", timer=t.timer, n=int(n), n_failed=n_failed, failure_reasons=reasons, seed=seed,
+        frequency=freq, duty=duty, nominal_frequency=float(nominal.frequency), nominal_duty=float(nominal.duty),
+        frequency_mean=float(freq.mean()), frequency_std=float(freq.std()), duty_mean=float(duty.mean()),
+        duty_std=float(duty.std()), frequency_histogram=Histogram(fc, fe), duty_histogram=Histogram(dc, de),
+        frequency_window=frequency_window, duty_window=duty_window, yield_=yield_, sources=sources,
+    )
+
+
+def worst_case_two_timer(design: Any) -> Any:
+    """Worst case of frequency and duty over every corner of the tolerance box (supply range included).
+
+    Returns a :class:`pwmkit.tolerance.WorstCaseResult` (method "corners").
+    """
+    from .tolerance import ExtremePoint, WorstCaseResult
+
+    t = design.timing
+    box = _box(design)
+    lo, hi = design.supply_range
+    dims = [(k, a, b) for k, a, b in box] + ([("vcc", lo, hi)] if hi > lo else [])
+    corners = np.array(list(itertools.product((0, 1), repeat=len(dims))), dtype=float)
+    values: dict[str, np.ndarray] = {}
+    for j, (k, a, b) in enumerate(dims):
+        pick = np.where(corners[:, j] > 0, b, a)
+        if k != "vcc":
+            values[k] = getattr(t, k) * (1.0 + pick)
+    vcc = np.where(corners[:, -1] > 0, hi, lo) if hi > lo else np.full(len(corners), design.vcc)
+    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, t.vctl_nominal)
+    if not np.all(ok):
+        raise DesignError(f"worst case: some corners do not work ({', '.join(f'{k}: {v}' for k, v in reasons.items())})")
+    nominal = output_timing(design, design.vcc, t.vctl_nominal)
+
+    def point(i: int) -> ExtremePoint:
+        dev = {k: float(np.where(corners[i, j] > 0, b, a)) for j, (k, a, b) in enumerate(dims)}
+        params = {k: float(values[k][i]) for k in values} | {"vcc": float(vcc[i])}
+        return ExtremePoint(deviations=dev, params=params, corner=True)
+
+    return WorstCaseResult(
+        topology="two-timer", timer=t.timer, frequency_nominal=float(nominal.frequency),
+        duty_nominal=float(nominal.duty), frequency_min=float(freq.min()), frequency_max=float(freq.max()),
+        duty_min=float(duty.min()), duty_max=float(duty.max()), frequency_min_at=point(int(np.argmin(freq))),
+        frequency_max_at=point(int(np.argmax(freq))), duty_min_at=point(int(np.argmin(duty))),
+        duty_max_at=point(int(np.argmax(duty))), method="corners", non_monotonic=(), n_evaluated=len(corners),
+        sources=tuple(f"{k}: {a:+.4g} … {b:+.4g}" for k, a, b in dims),
+    )
