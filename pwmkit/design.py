@@ -348,6 +348,8 @@ class HeaterLoad:
     ntc_r25, ntc_beta : thermistor at the element, β model [Ω], [K] (None = no thermistor loop)
     r_set : set resistor above the thermistor in the divider feeding the control pin [Ω]
     tau_sensor : thermistor lag behind the element [s]
+    t_cutout_c : opening temperature of a thermal cut-out in series with the element [°C]
+        (None = none fitted)
     """
 
     r_cold: Any = 8.0
@@ -360,6 +362,7 @@ class HeaterLoad:
     ntc_beta: Any = 3950.0
     r_set: Any = None
     tau_sensor: Any = 60.0
+    t_cutout_c: Any = None
     kind: Literal["heater"] = field(default="heater", init=False)
 
     def __post_init__(self) -> None:
@@ -373,6 +376,7 @@ class HeaterLoad:
         _num(self, "ntc_beta", unit="K", minimum=100.0, maximum=10000.0)
         _num(self, "r_set", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
         _num(self, "tau_sensor", unit="s", minimum=0.0)
+        _num(self, "t_cutout_c", unit="°C", optional=True, minimum=0.0, maximum=500.0)
         if (self.ntc_r25 is None) != (self.r_set is None):
             raise DesignError("heater.ntc_r25: the thermistor loop needs both ntc_r25 and r_set (or neither)")
 
@@ -492,15 +496,19 @@ class Design:
     def astable(self) -> Any:
         """Timing at the nominal design point (:class:`pwmkit.timing.AstableResult`).
 
-        For the "two-timer" topology: the PWM output (clock period, monostable pulse) at the nominal
-        control voltage, as an AstableResult with topology "two-timer".
+        For the "two-timer" topology: the PWM output (clock period, monostable pulse) at the
+        operating control voltage (:func:`pwmkit.two_timer_design.operating_point` — the
+        closed-loop point of a thermistor-controlled heater), as an AstableResult with topology
+        "two-timer".
         """
         from .timing import astable
 
         if self.timing.topology == "two-timer":
-            from .two_timer_design import output_timing
+            from .timing import two_timer_pwm
+            from .two_timer_design import as_astable_result, operating_point
 
-            return output_timing(self, self.vcc, self.timing.vctl_nominal)
+            v_pin = operating_point(self)[0]
+            return as_astable_result(two_timer_pwm(vctl=v_pin, **self.timing.two_timer_kwargs(self.vcc)), self)
         return astable(self.timing.topology, **self.astable_kwargs())
 
     def replace(self, **changes: Any) -> Design:
@@ -559,6 +567,12 @@ def demo_designs() -> dict[str, Design]:
         Ventilation-fan speed control: pot-steered bipolar timer above the
         audible band, small brushed DC fan motor with a Schottky freewheel
         diode.
+    ``"heat-mat"``
+        Seed-tray heat mat (8 Ω, 18 W at 12 V) on a two-timer fixed-frequency
+        PWM near 240 Hz: a bipolar clock triggers a bipolar monostable whose
+        control pin is fed by a 4.7 kΩ NTC thermistor divider at the mat (set
+        resistor 22 kΩ) — a proportional thermostat — and a 45 °C thermal cut-out
+        in series with the mat.
     """
     grow = Design(
         name="grow-bar",
@@ -594,4 +608,21 @@ def demo_designs() -> dict[str, Design]:
         requirements=Requirements(frequency=30e3, frequency_tolerance=0.3, duty_min=0.2, duty_max=0.9),
         notes="Ventilation-fan speed control for the same propagator (demo values).",
     )
-    return {"grow-bar": grow, "fan": fan}
+    mat = Design(
+        name="heat-mat",
+        vcc=12.0,
+        vcc_min=11.4,
+        vcc_max=12.6,
+        timing=Timing(topology="two-timer", ra=56e3, rb=2.2e3, c=100e-9, r_mono=22e3, c_mono=100e-9,
+                      vctl_min=4.0, vctl_max=7.0, timer="bipolar", c_dielectric="film"),
+        load=HeaterLoad(r_cold=8.0, alpha=0.0004, r_th=2.5, c_th=800.0, t_surface_max_c=45.0, ntc_r25=4.7e3,
+                        ntc_beta=3950.0, r_set=22e3, tau_sensor=60.0, t_cutout_c=45.0),
+        switch=Switch(mosfet="logic-level-30v", r_gate=100.0),
+        freewheel=Freewheel(diode="schottky-1a"),
+        t_ambient_c=15.0,
+        t_ambient_min_c=5.0,
+        t_ambient_max_c=30.0,
+        requirements=Requirements(frequency=240.0, frequency_tolerance=0.2, duty_min=0.22, duty_max=0.45),
+        notes="Seed-tray heat mat with a thermistor set point for the same propagator (demo values).",
+    )
+    return {"grow-bar": grow, "fan": fan, "heat-mat": mat}

@@ -60,8 +60,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
         _motor_part,
         _timer_output,
     )
-    from .evaluate_heater import heater_part, loop_chain
-    from .loads.heater import closed_loop
+    from .evaluate_heater import heater_part
     from .loads.mosfet import gate_drive, mosfet_losses
     from .parts.timers import get_timer
     from .timing import astable, two_timer_pwm
@@ -69,6 +68,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
         as_astable_result,
         control_range_of,
         monte_carlo_two_timer,
+        operating_point,
         pin_voltage,
         worst_case_two_timer,
     )
@@ -87,19 +87,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                 gate_error = str(exc)
         rds = 0.0 if gate is None else float(gate.rds_on_25)
         loop_mode = design.load is not None and design.load.kind == "heater" and design.load.has_loop
-        loop = None
-        if loop_mode:
-            from .evaluate_heater import heater_kwargs
-
-            d_of_v, v_of_t, d_range, v_range = loop_chain(design)
-            loop = closed_loop(d_of_v, v_of_t, duty_range=d_range, vctl_range=v_range,
-                               tau_sensor=design.load.tau_sensor, frequency=float(clock.frequency),
-                               t_ambient_c=design.t_ambient_c, **heater_kwargs(design, rds))
-            v_pin = float(min(max(loop.vctl, v_range[0] * (1 + 1e-12)), v_range[1] * (1 - 1e-12)))
-            v_source = None
-        else:
-            v_source = t.vctl_nominal
-            v_pin = float(pin_voltage(design, v_source, design.vcc))
+        v_pin, v_source, loop = operating_point(design)
         pwm = two_timer_pwm(vctl=v_pin, **kw)
         timing = as_astable_result(pwm, design)
         try:

@@ -202,3 +202,35 @@ def worst_case_two_timer(design: Any) -> Any:
         duty_max_at=point(int(np.argmax(duty))), method="corners", non_monotonic=(), n_evaluated=len(corners),
         sources=tuple(f"{k}: {a:+.4g} … {b:+.4g}" for k, a, b in dims),
     )
+
+
+def operating_point(design: Any) -> tuple[float, float | None, Any]:
+    """(pin voltage [V], source voltage [V] or None, loop or None) of a two-timer design's operating point.
+
+    With a heater and a thermistor divider: the closed loop at the nominal ambient (the switch
+    resistance from the timer's gate drive, as :func:`pwmkit.evaluate.evaluate` uses it); otherwise
+    the nominal control voltage through :func:`pin_voltage`.
+    """
+    t = design.timing
+    if design.load is not None and design.load.kind == "heater" and design.load.has_loop:
+        from .evaluate_heater import heater_kwargs, loop_chain
+        from .loads.heater import closed_loop
+        from .loads.mosfet import gate_drive
+        from .parts.timers import get_timer
+        from .timing import astable
+
+        fam = get_timer(t.timer)
+        try:
+            rds = float(gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
+                                   design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low).rds_on_25)
+        except DesignError:
+            rds = 0.0
+        clock = astable("classic", **t.astable_kwargs(design.vcc))
+        d_of_v, v_of_t, d_range, v_range = loop_chain(design)
+        loop = closed_loop(d_of_v, v_of_t, duty_range=d_range, vctl_range=v_range, tau_sensor=design.load.tau_sensor,
+                           frequency=float(clock.frequency), t_ambient_c=design.t_ambient_c,
+                           **heater_kwargs(design, rds))
+        v_pin = float(min(max(loop.vctl, v_range[0] * (1 + 1e-12)), v_range[1] * (1 - 1e-12)))
+        return v_pin, None, loop
+    v_source = t.vctl_nominal
+    return float(pin_voltage(design, v_source, design.vcc)), v_source, None

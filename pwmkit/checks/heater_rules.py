@@ -49,19 +49,36 @@ def surface_temperature(design: Any, ev: Any) -> Any:
 def fault_temperature(design: Any, ev: Any) -> Any:
     """Element temperature with the control lost (switch shorted, sensor open): full power.
 
-    Warn when it exceeds ``t_surface_max_c`` (a thermal cut-out or fuse independent of the control
-    is then needed), ok otherwise. Origin: common practice.
+    When it exceeds ``t_surface_max_c``: warn without a thermal cut-out, or with one that opens
+    above the limit; warn also when the cut-out opens within 5 K of the normal operating temperature
+    (nuisance trips, our judgement); ok otherwise. Origin: common practice (an independent
+    cut-out for heaters).
     """
     hp = _part(design, ev)
     if hp is None:
         return None
-    limit = design.load.t_surface_max_c
-    sev = "warn" if hp.t_fault_c > limit else "ok"
-    return finding("heater.fault", sev, "Heater temperature with the control lost", hp.t_fault_c, limit, "°C",
-                   f"At full power and {design.t_ambient_max_c:g} °C ambient the element reaches "
-                   f"{fmt(hp.t_fault_c, '°C')}.",
-                   "Fit a thermal cut-out (or thermal fuse) in series with the element, independent of the control.",
-                   "common-practice")
+    h = design.load
+    limit = h.t_surface_max_c
+    title = "Heater temperature with the control lost"
+    t_run = float(hp.loop_hot.t_element_c if hp.loop_hot is not None else hp.hot.t_element_c)
+    text = f"At full power and {design.t_ambient_max_c:g} °C ambient the element would reach {fmt(hp.t_fault_c, '°C')}"
+    if hp.t_fault_c <= limit:
+        return finding("heater.fault", "ok", title, hp.t_fault_c, limit, "°C", text + f", within the {fmt(limit, '°C')} "
+                       "limit.", "", "common-practice")
+    if h.t_cutout_c is None or h.t_cutout_c > limit:
+        what = "no thermal cut-out is fitted" if h.t_cutout_c is None else f"the cut-out opens only at {fmt(h.t_cutout_c, '°C')}"
+        return finding("heater.fault", "warn", title, hp.t_fault_c, limit, "°C",
+                       text + f", above the {fmt(limit, '°C')} limit, and {what}.",
+                       "Fit a thermal cut-out (or thermal fuse) in series with the element that opens at or below "
+                       "the surface limit, independent of the control.", "common-practice")
+    if h.t_cutout_c < t_run + 5.0:
+        return finding("heater.fault", "warn", title, h.t_cutout_c, t_run + 5.0, "°C",
+                       f"The cut-out opens at {fmt(h.t_cutout_c, '°C')}, within 5 K of the operating temperature "
+                       f"{fmt(t_run, '°C')}: it will trip in normal use.",
+                       "Lower the operating temperature or pick a cut-out between it and the surface limit.",
+                       "common-practice")
+    return finding("heater.fault", "ok", title, hp.t_fault_c, limit, "°C",
+                   text + f"; the {fmt(h.t_cutout_c, '°C')} cut-out opens first.", "", "common-practice")
 
 
 @_rule("heater.loop")

@@ -191,7 +191,7 @@ def test_text_with_quotes_backslashes_and_control_characters_round_trips() -> No
     ('[load]\nkind = "led"\nn_series = "3"', r"load\.n_series: expected a whole number"),
     ('[load]\nkind = "led"\nvf = 99', r"load\.vf: 99 V is out of range; allowed load\.vf <= 10 V"),
     ('[load]\nkind = "led"\ncolour = "octarine"', r"load\.colour: 'octarine' is not a known LED colour"),
-    ('[load]\nkind = "heater"', r"load\.kind: 'heater' is not allowed; allowed: led, motor"),
+    ('[load]\nkind = "valve"', r"load\.kind: 'valve' is not allowed; allowed: led, motor, heater"),
     ("[load]\nr = 2", r"load\.kind: missing"),
     ('[load]\nkind = "motor"\nn_series = 3', r"load\.n_series: unknown key; known keys in \[load\]: kind, r, l"),
     ('[switch]\nmosfet = "unobtainium"', r"switch\.mosfet: 'unobtainium' is not a known MOSFET family; allowed:"),
