@@ -122,9 +122,16 @@ def _circuit(design: Design, evaluation: Any) -> str:
 
     t = design.timing
     fam = get_timer(t.timer)
-    parts = [f"A {fam.description} runs as an astable multivibrator from {_fv(design.vcc, 'V')}. "
-             + _TOPOLOGY_TEXT[t.topology]]
-    if t.vctl is not None:
+    if t.topology == "two-timer":
+        from .report_two_timer import circuit_text
+
+        parts = circuit_text(design, evaluation)
+    else:
+        parts = [f"A {fam.description} runs as an astable multivibrator from {_fv(design.vcc, 'V')}. "
+                 + _TOPOLOGY_TEXT[t.topology]]
+    if t.topology == "two-timer":
+        pass
+    elif t.vctl is not None:
         parts.append(f"An external {_fv(t.vctl, 'V')} at the control pin sets the upper threshold (the lower "
                      "one is half of it).")
     elif t.r_cv is not None:
@@ -147,6 +154,11 @@ def _circuit(design: Design, evaluation: Any) -> str:
         parts.append(f"The load is a brushed DC motor (R {_fv(load.r, 'Ω')}, L {_fv(load.l, 'H')}) from "
                      f"{_fv(design.load_supply, 'V')}, with a freewheel diode ({design.freewheel.diode}){clamp} "
                      "across it.")
+    elif load is not None and load.kind == "heater":
+        parts.append(f"The load is a resistive heater element ({_fv(load.r_cold, 'Ω')} at {load.t_ref_c:g} °C, "
+                     f"temperature coefficient {load.alpha:g} /K) from {_fv(design.load_supply, 'V')}"
+                     + (f", with a {load.t_cutout_c:g} °C thermal cut-out in series." if load.t_cutout_c is not None
+                        else "; no thermal cut-out is fitted."))
     return "<p>" + " ".join(_e(p) for p in parts) + "</p>"
 
 
@@ -164,6 +176,10 @@ def _schematic(design: Design, evaluation: Any) -> str:
 
 
 def _timing(evaluation: Any) -> str:
+    if getattr(evaluation, "two_timer", None) is not None:
+        from .report_two_timer import timing_html
+
+        return timing_html(evaluation, _table)
     ex, ideal = evaluation.timing, evaluation.ideal
     rows = []
     for label, key, unit in (("t_high (charge)", "t_high", "s"), ("t_low (discharge)", "t_low", "s"),
@@ -247,6 +263,10 @@ def _findings(evaluation: Any) -> str:
 def _formulas(design: Design) -> str:
     from .formulas import design_variant, formula, worked
 
+    if design.timing.topology == "two-timer":
+        from .report_two_timer import formulas_html
+
+        return formulas_html(design)
     discharge, control, _ = design_variant(design)
     topo = design.timing.topology
     out = []
@@ -263,6 +283,14 @@ def _formulas(design: Design) -> str:
 
     out.append(f"<details><summary>symbols</summary><pre>{_e(symbol_table('unicode'))}</pre></details>")
     return "".join(out)
+
+
+def _heater_section(evaluation: Any) -> list[tuple[str, str, str]]:
+    if getattr(evaluation, "heater", None) is None:
+        return []
+    from .report_two_timer import heater_html
+
+    return [("heater", "Heater element and temperature", heater_html(evaluation, _table))]
 
 
 def _cautions(evaluation: Any) -> str:
@@ -336,6 +364,7 @@ def report_html(design: Design, evaluation: Any = None) -> str:
          + f"<div class='plot'>{divs.get('waveform', '')}</div>"
          + (f"<h3>Pot travel</h3><div class='plot'>{divs['pot']}</div>" if "pot" in divs else "")
          + (f"<h3>MOSFET losses</h3><div class='plot'>{divs['losses']}</div>" if "losses" in divs else "")),
+        *_heater_section(evaluation),
         ("spread", "Spread over tolerances, temperature and supply", _spread(evaluation)
          + (f"<div class='plot'>{divs['spread']}</div>" if "spread" in divs else "")),
         ("findings", "Design-rule checks", _findings(evaluation)),

@@ -87,7 +87,7 @@ def waveform(result: AstableResult, *, cycles: float = 2.0, points_per_cycle: in
     vc = np.where(
         charging,
         r.v_charge + (r.v_lower - r.v_charge) * np.exp(-tt / tau_ch),
-        r.v_discharge + (r.v_upper - r.v_discharge) * np.exp(-(tt - r.t_high) / max(tau_dis, 1e-300)),
+        r.v_discharge + (r.v_upper - r.v_discharge) * np.exp(-np.maximum(tt - r.t_high, 0.0) / max(tau_dis, 1e-300)),
     )
     v[~first] = vc
     high[~first] = charging
