@@ -56,6 +56,11 @@ def _demo(args: argparse.Namespace) -> int:
     print("pwmkit demo — 12 V greenhouse propagator (demo values)\n")
     for name, d in designs.items():
         t = d.timing
+        if t.topology == "two-timer":
+            from .cli_two_timer import demo_lines
+
+            print("\n".join(demo_lines(name, d)))
+            continue
         exact = d.astable()
         kw = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=d.vcc)
         if t.topology == "pot":

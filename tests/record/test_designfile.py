@@ -25,14 +25,15 @@ else:  # pragma: no cover
     import tomli as tomllib
 
 ROOT = Path(__file__).resolve().parents[2]
-EXAMPLES = {"grow-bar": ROOT / "examples" / "greenhouse-grow-bar.toml", "fan": ROOT / "examples" / "greenhouse-fan.toml"}
+EXAMPLES = {"grow-bar": ROOT / "examples" / "greenhouse-grow-bar.toml", "fan": ROOT / "examples" / "greenhouse-fan.toml",
+            "heat-mat": ROOT / "examples" / "greenhouse-heat-mat.toml"}
 HEAD = 'format = "pwmkit-design"\nversion = 1\n'
 
 
 # ------------------------------------------------------------------------------------------------
 # round trips
 # ------------------------------------------------------------------------------------------------
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_demo_designs_round_trip_through_text_and_file(name: str, tmp_path: Path) -> None:
     design = demo_designs()[name]
     assert design_from_toml(design_to_toml(design)) == design
@@ -40,7 +41,7 @@ def test_demo_designs_round_trip_through_text_and_file(name: str, tmp_path: Path
     assert load_design(path) == design
 
 
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_example_files_hold_the_demo_designs(name: str) -> None:
     # the shipped examples must stay in step with pwmkit.design.demo_designs()
     assert load_design(EXAMPLES[name]) == demo_designs()[name]
@@ -51,7 +52,7 @@ def _without_none(d: dict) -> dict:
     return {k: (_without_none(v) if isinstance(v, dict) else v) for k, v in d.items() if v is not None}
 
 
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_emitted_toml_reads_back_with_the_standard_library_parser(name: str) -> None:
     # independent reader: Python's tomllib sees exactly the design's fields (TOML v1.0.0 syntax)
     design = demo_designs()[name]
