@@ -18,7 +18,9 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`FlickerPanel` — the design point on the IEEE 1789 regions;
 - :class:`FindingsPanel` — design-rule checks with remedies;
 - :class:`FormulasPanel` — rendered formulas and copyable text;
-- :class:`SchematicPanel` — the circuit as SVG.
+- :class:`SchematicPanel` — the circuit as SVG;
+- :class:`TwoTimerPanel`, :class:`ControlHeaterPanel` — the two-timer PWM (clock, monostable,
+  control range) and heater loads (element temperature, thermistor loop).
 
 Plot panels need BokehJS on the notebook page: :func:`dashboard` loads it from the installed
 bokeh (no network); when you use plot panels without a dashboard, call :func:`load_bokehjs` once.
@@ -49,6 +51,8 @@ _EXPORTS = {
     "FormulasPanel": "formulas",
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
+    "TwoTimerPanel": "two_timer",
+    "ControlHeaterPanel": "two_timer",
 }
 
 __all__ = sorted(_EXPORTS)

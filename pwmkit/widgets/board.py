@@ -89,6 +89,7 @@ class Dashboard(w.VBox):
     timing : TimingPanel; waveforms : WaveformPanel; pot_travel : PotTravelPanel;
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
+    control_heater : ControlHeaterPanel or None — two-timer designs and heater loads (first tab)
     tabs : ipywidgets.Tab
     """
 
@@ -97,7 +98,13 @@ class Dashboard(w.VBox):
         s = self.session
         self.header = w.HTML()
         self.cautions = CautionsBox(s, collapsed=True)
-        self.timing = TimingPanel(s)
+        two_timer = s.design.timing.topology == "two-timer"
+        if two_timer:  # the two-timer PWM has its own editor (clock, monostable, control range)
+            from .two_timer import TwoTimerPanel
+
+            self.timing = TwoTimerPanel(s)  # type: ignore[assignment]
+        else:
+            self.timing = TimingPanel(s)
         self.waveforms = WaveformPanel(s, show_cautions=False)
         self.pot_travel = PotTravelPanel(s)
         self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
@@ -110,6 +117,12 @@ class Dashboard(w.VBox):
             ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
             ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
         ]
+        self.control_heater = None
+        if two_timer or (s.design.load is not None and s.design.load.kind == "heater"):
+            from .two_timer import ControlHeaterPanel
+
+            self.control_heater = ControlHeaterPanel(s)
+            pages.insert(0, ("Control & heater", self.control_heater))
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
         self.tabs = w.Tab(children=[p for _t, p in pages])

@@ -1,0 +1,190 @@
+"""Panels of the two-timer PWM and of heater loads: edit the clock, the monostable and the control
+range; read the modulator, the duty over the control range, the element temperature and the loop.
+
+:class:`TwoTimerPanel` takes the timing panel's place in the dashboard for a "two-timer" design;
+:class:`ControlHeaterPanel` is its tab with the plots. Both hold no physics: they read the
+session's evaluation (:func:`pwmkit.evaluate.evaluate`).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import ipywidgets as w
+
+from ..design import Design
+from ._base import DASH, GENERIC_MESSAGE, Panel, esc, fmt, fmt_pct, log, num, safe_callback
+from .entry import ValueEntry
+from .session import DesignSession, as_session
+
+__all__ = ["TwoTimerPanel", "ControlHeaterPanel", "two_timer_html", "heater_html"]
+
+
+def _table(title: str, rows: list[tuple[str, str]], css: str) -> str:
+    body = "".join(f"<tr><th style='text-align:left;font-weight:normal;color:#5a6270;padding:1px 12px 1px 0'>"
+                   f"{esc(k)}</th><td class='pwmkit-q' style='text-align:right'>{esc(v)}</td></tr>" for k, v in rows)
+    return (f"<table class='{css}' style='font-size:13px;border-collapse:collapse;margin:2px 0 8px 0'>"
+            f"<caption style='text-align:left;font-weight:600;color:#1f2328'>{esc(title)}</caption>{body}</table>")
+
+
+def two_timer_html(evaluation: Any) -> str:
+    """Readout of the clock, the modulator at the operating point and the control range."""
+    tt = evaluation.two_timer
+    if tt is None:
+        return "<i>not a two-timer design</i>"
+    p, t = tt.pwm, evaluation.timing
+    rows = [("PWM frequency (clock)", fmt(t.frequency, "Hz", 5)), ("pulse / duty", f"{fmt(t.t_high, 's', 4)} / "
+            f"{fmt_pct(t.duty, 4)}"), ("control pin now", fmt(tt.v_pin, "V", 4)),
+            ("minimum pulse (trigger)", fmt(p.t_trigger, "s", 3)),
+            ("reachable duty", f"{fmt_pct(p.duty_min, 3)} … {fmt_pct(p.duty_max, 4)}")]
+    c = tt.control
+    if c is not None:
+        rows += [("duty over the control range", f"{fmt_pct(c.duty_low, 3)} … {fmt_pct(c.duty_high, 4)}"),
+                 ("linearity", f"±{num(100 * c.linearity_error, '.2g', ' pt')}"),
+                 ("supply sensitivity (fixed / ratiometric)",
+                  f"{num(100 * c.supply_sensitivity, '+.2g')} / {num(100 * c.supply_sensitivity_ratiometric, '+.2g')} pt/V")]
+    html = _table("Two-timer PWM", rows, "pwmkit-two-timer")
+    if tt.control_error:
+        html += f"<div class='pwmkit-note' style='color:#8a2d00'>✖ {esc(tt.control_error)}</div>"
+    return html
+
+
+def heater_html(evaluation: Any) -> str:
+    """Readout of the heater element and the thermistor loop."""
+    from ..evaluate_heater import heater_rows
+
+    if evaluation.heater is None:
+        return ""
+    return _table("Heater", heater_rows(evaluation), "pwmkit-heater")
+
+
+class TwoTimerPanel(Panel):
+    """Edit a two-timer design: clock ``ra``, ``rb``, ``c``; monostable ``r_mono``, ``c_mono``;
+    control range ``vctl_min`` … ``vctl_max``; supply ``vcc``. Readouts below.
+
+    Attributes
+    ----------
+    entries : dict[str, ValueEntry]
+    readout : ipywidgets.HTML (CSS class ``pwmkit-two-timer-box``)
+    """
+
+    title = "Two-timer PWM"
+    css_name = "two-timer"
+    message_lead = "Not applied"
+
+    def __init__(self, design: Design | DesignSession) -> None:
+        super().__init__()
+        self.session = as_session(design)
+        d = self.session.design
+        t = d.timing
+
+        def entry(name: str, label: str, unit: str, value: float, **kw: Any) -> ValueEntry:
+            return ValueEntry(name, label, unit, value, handler=self._on_entry, report=self.show_message, **kw)
+
+        self.entries: dict[str, ValueEntry] = {
+            "ra": entry("ra", "clock R<sub>A</sub>", "Ω", t.ra, log_range=(1e3, 10e6), snappable=True),
+            "rb": entry("rb", "clock R<sub>B</sub> (trigger)", "Ω", t.rb, log_range=(100.0, 1e6), snappable=True),
+            "c": entry("c", "clock C", "F", t.c, log_range=(100e-12, 100e-6), snappable=True),
+            "r_mono": entry("r_mono", "monostable R", "Ω", t.r_mono, log_range=(1e3, 10e6), snappable=True),
+            "c_mono": entry("c_mono", "monostable C", "F", t.c_mono, log_range=(100e-12, 100e-6), snappable=True),
+            "vctl_min": entry("vctl_min", "control from", "V", t.vctl_min, linear=(0.1, 17.0, 0.05)),
+            "vctl_max": entry("vctl_max", "control to", "V", t.vctl_max, linear=(0.1, 17.0, 0.05)),
+            "vcc": entry("vcc", "supply V<sub>CC</sub>", "V", d.vcc, linear=(1.0, 18.0, 0.1)),
+        }
+        self.readout = w.HTML()
+        self.readout.add_class("pwmkit-two-timer-box")
+        self.set_body([*self.entries.values(), self.readout])
+        self.session.subscribe(self.refresh)
+        self.refresh(self.session.evaluation)
+
+    def _on_entry(self, name: str, value: float) -> str | None:
+        try:
+            if name == "vcc":
+                verdict = self.session.edit(lambda d: _with_supply(d, value))
+            else:
+                verdict = self.session.edit(lambda d: d.with_timing(**{name: value}))
+        except Exception:  # never raise into the widget machinery
+            log.exception("pwmkit: two-timer entry %s failed", name)
+            self.show_message(GENERIC_MESSAGE)
+            return GENERIC_MESSAGE
+        if verdict is None:
+            self.clear_message()
+            return None
+        self.show_message(verdict)
+        return verdict
+
+    def set_value(self, name: str, value: Any) -> str | None:
+        """Programmatic edit, as if typed. Returns the rejection reason or None."""
+        from ..values import parse_value
+
+        if name not in self.entries:
+            raise KeyError(f"unknown field {name!r}; known: {', '.join(self.entries)}")
+        self.entries[name].text.value = value if isinstance(value, str) else format(float(parse_value(value)), "g")
+        return self.message_text or None
+
+    @safe_callback
+    def refresh(self, evaluation: Any) -> None:
+        d = self.session.design
+        for name, entry in self.entries.items():
+            value = d.vcc if name == "vcc" else getattr(d.timing, name)
+            if entry.value != value:
+                entry.set_value(value)
+        self.readout.value = two_timer_html(evaluation) + heater_html(evaluation)
+
+
+def _with_supply(design: Design, vcc: float) -> Design:
+    lo, hi = design.supply_range
+    scale = vcc / design.vcc
+    changes: dict[str, Any] = {"vcc": vcc}
+    if design.vcc_min is not None:
+        changes["vcc_min"] = lo * scale
+    if design.vcc_max is not None:
+        changes["vcc_max"] = hi * scale
+    return design.replace(**changes)
+
+
+class ControlHeaterPanel(Panel):
+    """Duty over the control range (two-timer designs) and element temperature over duty (heaters)."""
+
+    title = "Control range and heater"
+    css_name = "control-heater"
+
+    def __init__(self, design: Design | DesignSession) -> None:
+        super().__init__()
+        from ..plots.control import ControlPlot, HeaterPlot
+        from .views import _bokeh
+
+        self.session = as_session(design)
+        self.control_plot = ControlPlot()
+        self.heater_plot = HeaterPlot()
+        self.note = w.HTML()
+        self.refresh(self.session.evaluation)  # first data before the widgets are made
+        self.control_box = w.VBox([_bokeh(self.control_plot.layout, "pwmkit-plot-control")])
+        self.heater_box = w.VBox([_bokeh(self.heater_plot.layout, "pwmkit-plot-heater")])
+        self.set_body([w.HBox([self.control_box, self.heater_box], layout=w.Layout(flex_flow="row wrap")), self.note])
+        self._show(self.session.evaluation)
+        self.session.subscribe(self.follow)
+
+    def _show(self, ev: Any) -> None:
+        if hasattr(self, "control_box"):
+            ok_c = ev.two_timer is not None and ev.two_timer.control is not None
+            self.control_box.layout.display = None if ok_c else "none"
+            self.heater_box.layout.display = None if ev.heater is not None else "none"
+
+    @safe_callback
+    def refresh(self, evaluation: Any) -> None:
+        ev = evaluation
+        notes = []
+        if ev.two_timer is not None and ev.two_timer.control is not None:
+            self.control_plot.update(ev.two_timer.control, ev.two_timer.v_pin, float(ev.timing.duty))
+        elif ev.two_timer is not None:
+            notes.append(ev.two_timer.control_error or DASH)
+        if ev.heater is not None:
+            self.heater_plot.update(ev.heater, self.session.design.load.t_surface_max_c)
+            lp = ev.heater.loop
+            if lp is not None:
+                notes.append(f"The thermistor loop holds {lp.t_element_c:.3g} °C ({100 * lp.duty:.3g} % duty); "
+                             f"loop gain {lp.gain:.2g}, droop {lp.droop:.2g} K per K of ambient.")
+        self.note.value = "".join(f"<div style='font-size:12px;color:#3d4652'>{esc(n)}</div>" for n in notes)
+        self._show(ev)
+        self.clear_message()

@@ -1,0 +1,49 @@
+"""Two-timer and heater panels without a browser: the dashboard picks them, edits reach the session,
+plot data follows the evaluation, bad input stays in the panel."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from pwmkit.widgets import ControlHeaterPanel, Dashboard, TwoTimerPanel
+
+
+@pytest.fixture(scope="module")
+def mat_dash(designs):
+    return Dashboard(designs["heat-mat"])
+
+
+def test_dashboard_uses_the_two_timer_panels(mat_dash):
+    assert isinstance(mat_dash.timing, TwoTimerPanel)
+    assert isinstance(mat_dash.control_heater, ControlHeaterPanel)
+    assert mat_dash.tabs.titles[0] == "Control & heater"
+    assert "Two-timer PWM" in mat_dash.timing.readout.value and "thermistor loop" in mat_dash.timing.readout.value
+
+
+def test_plots_follow_the_evaluation(designs):
+    dash = Dashboard(designs["heat-mat"])
+    ev = dash.session.evaluation
+    data = dash.control_heater.control_plot.source.data
+    assert np.allclose(data["duty"], 100 * ev.two_timer.control.duty)
+    assert dash.control_heater.control_plot.marker.data["duty"] == [pytest.approx(100 * float(ev.timing.duty))]
+    heat = dash.control_heater.heater_plot.source.data
+    assert np.allclose(heat["t_element_c"], ev.heater.sweep.t_element_c)
+    assert dash.timing.set_value("r_mono", "27k") is None
+    ev2 = dash.session.evaluation
+    assert dash.session.design.timing.r_mono == 27e3 and ev2.timing.duty > ev.timing.duty
+    assert np.allclose(dash.control_heater.control_plot.source.data["duty"], 100 * ev2.two_timer.control.duty)
+
+
+def test_bad_input_stays_in_the_panel(designs):
+    panel = TwoTimerPanel(designs["heat-mat"])
+    before = panel.session.design
+    panel.set_value("c_mono", "10q")
+    assert panel.session.design == before
+    panel.set_value("vctl_min", "9")  # above vctl_max: the design object refuses it
+    assert "vctl_min" in panel.message_text and panel.session.design == before
+
+
+def test_loads_panel_shows_the_heater(mat_dash):
+    mat_dash.show_tab("Load & switch")
+    assert "Heater" in mat_dash.loads.load_html.value and "thermistor loop" in mat_dash.loads.load_html.value
