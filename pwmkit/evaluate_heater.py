@@ -13,6 +13,7 @@ Decides which conditions the heater models see, and does no physics of its own:
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -55,8 +56,9 @@ def heater_kwargs(design: Any, rds_on: float = 0.0) -> dict[str, Any]:
 
 def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[float, float], tuple[float, float]]:
     """(duty_of_vctl, vctl_of_t, duty_range, vctl_range) of a two-timer design with a thermistor divider."""
-    from .loads.heater import thermistor_source
+    from .loads.heater import KELVIN
     from .timing import control_pin_drive, two_timer_pwm
+    from .timing.two_timer import _clock, _inputs, _two_timer_core
 
     t, h = design.timing, design.load
     vcc = design.vcc if vcc is None else vcc
@@ -64,13 +66,23 @@ def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[f
     probe = two_timer_pwm(vctl=min(2.0 * vcc / 3.0, 0.5 * vcc), **kw)
     v_lo, v_hi = float(probe.vctl_min), float(probe.vctl_max)
     r_extra = 0.0 if t.r_ctl_source is None else float(t.r_ctl_source)
+    # inputs checked once here; the loop's many evaluations take the unchecked core path
+    q = _inputs(kw["ra"], kw["rb"], kw["c"], kw["r_mono"], kw["c_mono"], vcc, 0.5 * vcc, kw["timer"], None,
+                kw.get("vsat"))
+    q["_clock"] = _clock(q)
+    r_int = control_pin_drive(0.0, 0.0, vcc, t.timer).r_internal
+    v_open = 2.0 * vcc / 3.0
+    r25, beta, r_set = float(h.ntc_r25), float(h.ntc_beta), float(h.r_set)
 
     def duty_of_vctl(v: float) -> float:
-        return float(two_timer_pwm(vctl=min(max(v, v_lo * (1 + 1e-12)), v_hi * (1 - 1e-12)), **kw).duty)
+        return float(_two_timer_core(dict(q, vctl=min(max(v, v_lo * (1 + 1e-12)), v_hi * (1 - 1e-12)))).duty)
 
     def vctl_of_t(temp: float) -> float:
-        vs, rs = thermistor_source(temp, vcc, h.ntc_r25, h.ntc_beta, h.r_set)
-        return float(control_pin_drive(vs, rs + r_extra, vcc, t.timer).vctl)
+        # the thermistor divider (β model) against the internal divider: as thermistor_source and
+        # control_pin_drive, written out for the loop's inner evaluations
+        r_ntc = r25 * math.exp(beta * (1.0 / (temp + KELVIN) - 1.0 / (25.0 + KELVIN)))
+        vs, rs = vcc * r_ntc / (r_set + r_ntc), r_set * r_ntc / (r_set + r_ntc) + r_extra
+        return v_open + r_int / (r_int + rs) * (vs - v_open)
 
     return duty_of_vctl, vctl_of_t, (float(probe.duty_min), float(probe.duty_max)), (v_lo, v_hi)
 

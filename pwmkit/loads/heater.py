@@ -314,6 +314,32 @@ class ClosedLoop:
         return result_html(self, self._UNITS, "closed loop")
 
 
+def _illinois(g: Any, lo: float, hi: float, xtol: float = 1e-9, steps: int = 100) -> float:
+    """Root of an increasing ``g`` in ``[lo, hi]`` by bracketed Illinois regula falsi (clamped to the ends)."""
+    g_lo, g_hi = g(lo), g(hi)
+    if g_lo >= 0:
+        return lo
+    if g_hi <= 0:
+        return hi
+    side = 0
+    for _ in range(steps):
+        x = (lo * g_hi - hi * g_lo) / (g_hi - g_lo)
+        gx = g(x)
+        if gx > 0:
+            hi, g_hi = x, gx
+            if side == -1:
+                g_lo *= 0.5
+            side = -1
+        else:
+            lo, g_lo = x, gx
+            if side == 1:
+                g_hi *= 0.5
+            side = 1
+        if hi - lo < xtol or gx == 0:
+            break
+    return 0.5 * (lo + hi) if gx != 0 else x
+
+
 def _crossing(vctl_of_t: Any, level: float, t_lo: float, t_hi: float) -> float:
     """Temperature [°C] where a falling ``vctl_of_t`` crosses ``level`` (clamped to the bracket ends)."""
     if not math.isfinite(level):
@@ -352,8 +378,9 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
                 vctl_range: tuple[float, float] | None = None) -> ClosedLoop:
     """Closed-loop steady temperature and phase margin of a thermistor-controlled heater.
 
-    The steady state solves ``T − T_a = R_θ·P(D(V_ctl(T)), T)`` by bracketed bisection between
-    ambient and the full-duty temperature; the loop is linearised there
+    The steady state solves ``T − T_a = R_θ·P(D(V_ctl(T)), T)`` by bracketed Illinois regula falsi
+    between ambient and the temperature at the highest duty (the left side rises with ``T``, the
+    right side falls); the loop is linearised there
     (``∂D/∂T`` by central difference of the given chain) and its phase margin computed with
     :func:`phase_margin`.
 
@@ -394,16 +421,7 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
     def g(t: float) -> float:  # > 0 when the element is hotter than the control sustains
         return (t - ta) - rise_at(duty_at(t)[0])
 
-    lo, hi = ta, t_max
-    if g(lo) >= 0:  # pragma: no cover - only with a zero-power heater
-        lo = hi = ta
-    for _ in range(56):
-        mid = 0.5 * (lo + hi)
-        if g(mid) > 0:
-            hi = mid
-        else:
-            lo = mid
-    t_ss = 0.5 * (lo + hi)
+    t_ss = _illinois(g, ta, t_max)
     d_ss, v_ss, sat = duty_at(t_ss)
     # linearisation
     h = 0.01

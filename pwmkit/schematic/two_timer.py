@@ -2,7 +2,7 @@
 
 U1 is a classic astable clock (R1 = ``ra``, R2 = ``rb``, C1 = ``c``, C2 on its control pin); its
 output is the net ``CLK``, which drives the trigger of U2, a monostable (R3 = ``r_mono`` from the
-supply to THR/DIS, C3 = ``c_mono``). U2's control pin takes the control voltage: an NTC thermistor
+supply to THR/DIS, C4 = ``c_mono``). U2's control pin takes the control voltage: an NTC thermistor
 divider (R5 = set resistor on top, TH1 below) for a heater with a thermistor loop, else a source
 V1 (with its source resistance R6 when given). U2's output drives the low-side MOSFET through R4
 (``r_gate``); a heater element RH1 with an optional thermal cut-out F1 hangs from the supply.
@@ -112,8 +112,8 @@ def for_two_timer(design: Any, *, annotate: bool = True, timing: Any = None, sty
         label(xm, 8.5, f"R3\n{fv(t.r_mono, 'Ω')}", "left")
         record("R3", "resistor", fv(t.r_mono, "Ω"), "r_mono", ("VCC", "THR2"))
         sh.two(elm.Capacitor(), (xm, _PIN_THR), (xm, 0.0))
-        label(xm, 1.6, f"C3\n{fv(t.c_mono, 'F')}", "left")
-        record("C3", "capacitor", fv(t.c_mono, "F"), "c_mono", ("THR2", "GND"))
+        label(xm, 1.6, f"C4\n{fv(t.c_mono, 'F')}", "left")
+        record("C4", "capacitor", fv(t.c_mono, "F"), "c_mono", ("THR2", "GND"))
         x2 = xm + 2.4
         sh.wire((xm, _PIN_DIS), (xm, _PIN_THR))
         sh.wire((xm, _PIN_DIS), (x2 - 1.0, _PIN_DIS))

@@ -161,7 +161,7 @@ def _clock(q: dict[str, Any]) -> Any:
 def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
     from .monostable_symbolic import monostable_numeric
 
-    clk = _clock(q)
+    clk = q["_clock"] if q.get("_clock") is not None else _clock(q)
     width_fn, d_per_v, _ = monostable_numeric()
     vcc, vctl, v_rest = q["vcc"], q["vctl"], q["v_rest"]
     r, cm = q["r_mono"], q["c_mono"]

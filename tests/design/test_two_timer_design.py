@@ -159,3 +159,31 @@ def test_heater_on_an_astable_is_open_loop():
     assert ev.heater.loop is None
     assert ev.heater.element.duty == pytest.approx(float(ev.timing.duty))
     assert np.all(np.diff(ev.heater.sweep.t_element_c) > 0)
+
+
+def test_bom_lists_the_two_timer_and_heater_parts():
+    from pwmkit.record.bom import bom_rows
+    from pwmkit.schematic import for_design
+
+    rows = {r.ref: r for r in bom_rows(MAT)}
+    for ref in ("U1", "U2", "R3", "C4", "RH1", "R5", "TH1", "F1", "Q1"):
+        assert ref in rows
+    assert rows["R3"].value == "22 kΩ" and rows["F1"].value == "45 °C"
+    drawn = {p.reference for p in for_design(MAT).parts}
+    assert {"R1", "R2", "C1", "R3", "C4", "R5", "TH1", "RH1", "F1", "Q1"} <= drawn  # same designators
+
+
+def test_loop_chain_matches_the_public_models():
+    from pwmkit.evaluate_heater import loop_chain
+    from pwmkit.loads.heater import thermistor_source
+    from pwmkit.timing import control_pin_drive
+
+    d_of_v, v_of_t, d_range, v_range = loop_chain(MAT)
+    h = MAT.load
+    for temp in (5.0, 25.0, 40.0):
+        vs, rs = thermistor_source(temp, MAT.vcc, h.ntc_r25, h.ntc_beta, h.r_set)
+        assert v_of_t(temp) == pytest.approx(control_pin_drive(vs, rs, MAT.vcc).vctl, rel=1e-12)
+    for v in (4.5, 6.0):
+        ref = two_timer_pwm(vctl=v, **MAT.timing.two_timer_kwargs(MAT.vcc)).duty
+        assert d_of_v(v) == pytest.approx(ref, rel=1e-12)
+    assert d_range[0] < d_of_v(5.0) < d_range[1]
