@@ -239,7 +239,12 @@ class Timing:
             return v_source
         from .timing.monostable import control_pin_drive
 
-        return control_pin_drive(v_source, self.r_ctl_source, vcc, self.timer).vctl
+        try:
+            return control_pin_drive(v_source, self.r_ctl_source, vcc, self.timer).vctl
+        except DesignError as exc:
+            raise DesignError(f"timing.r_ctl_source: a control source resistance needs the timer's internal divider "
+                              f"value, and for the {self.timer} family it is not known ({exc}); use a stiff source "
+                              "(r_ctl_source none) or the bipolar family") from None
 
     def astable_kwargs(self, vcc: float) -> dict[str, Any]:
         """Keyword arguments for :func:`pwmkit.timing.astable` at supply ``vcc`` (the clock for "two-timer")."""

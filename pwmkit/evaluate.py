@@ -32,6 +32,7 @@ from typing import Any
 import numpy as np
 
 from .errors import DesignError
+from .two_timer_design import circuit_words as _circuit_words
 
 __all__ = ["Evaluation", "PotTravel", "TimerOutput", "SupplyCorners", "LedCorners", "Conditions", "evaluate",
            "timing_kwargs", "tolerance_kwargs", "dielectric_of", "TRAVEL_POINTS", "SPEED_ITERATIONS"]
@@ -839,7 +840,7 @@ def _evaluation_html(ev: Evaluation) -> str:
                f"{ev.findings.fail_count} fail, {ev.findings.warn_count} warning(s), {ev.findings.ok_count} ok</span>")
     load = "no load" if d.load is None else f"{d.load.kind} load from {fv(c.load_supply, 'V', 3)}"
     head = (f"<div style='font-size:15px;font-weight:600'>{html.escape(d.name)}</div>"
-            f"<div>{html.escape(d.timing.topology)} astable, {html.escape(d.timing.timer)} timer, supply "
+            f"<div>{html.escape(_circuit_words(d.timing.topology))}, {html.escape(d.timing.timer)} timer, supply "
             f"{html.escape(fv(c.vcc, 'V', 3))} ({html.escape(fv(c.vcc_min, 'V', 3))} … {html.escape(fv(c.vcc_max, 'V', 3))}), "
             f"{html.escape(load)}{' — quick mode, no tolerance analysis' if c.quick else ''}</div><div>{verdict}</div>")
     timing = _table("Timing", ("", "exact", "textbook ln 2", "difference"), _timing_rows(ev))

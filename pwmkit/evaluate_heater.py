@@ -19,6 +19,8 @@ from typing import Any
 
 import numpy as np
 
+from .errors import DesignError
+
 __all__ = ["HeaterPart", "heater_kwargs", "heater_part", "loop_chain", "DUTY_SWEEP_POINTS"]
 
 #: Duty points of the steady-temperature-vs-duty sweep.
@@ -70,7 +72,11 @@ def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[f
     q = _inputs(kw["ra"], kw["rb"], kw["c"], kw["r_mono"], kw["c_mono"], vcc, 0.5 * vcc, kw["timer"], None,
                 kw.get("vsat"))
     q["_clock"] = _clock(q)
-    r_int = control_pin_drive(0.0, 0.0, vcc, t.timer).r_internal
+    try:
+        r_int = control_pin_drive(0.0, 0.0, vcc, t.timer).r_internal
+    except DesignError as exc:
+        raise DesignError(f"heater.ntc_r25: the thermistor divider works against the timer's internal divider, "
+                          f"whose value is not known for the {t.timer} family ({exc}); use the bipolar family") from None
     v_open = 2.0 * vcc / 3.0
     r25, beta, r_set = float(h.ntc_r25), float(h.ntc_beta), float(h.r_set)
 

@@ -32,7 +32,7 @@ class TwoTimerPart:
     clock : AstableResult of the clock (classic astable)
     pwm : TwoTimerPwm at the operating control voltage
     control : ControlRange over the design's control range, or None when the range cannot be used
-    control_error : why not (e.g. part of the range skips cycles), or None
+    control_error : why not (e.g. part of the range skips cycles at the nominal or the lowest supply), or None
     v_pin : control-pin voltage at the operating point [V]
     v_source : control (source) voltage at the operating point [V] (None with a thermistor loop)
     ratiometric : the control voltage follows the supply (thermistor divider)
@@ -90,11 +90,16 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
         v_pin, v_source, loop = operating_point(design)
         pwm = two_timer_pwm(vctl=v_pin, **kw)
         timing = as_astable_result(pwm, design)
+        lo, hi = design.supply_range
         try:
             control, control_error = control_range_of(design), None
         except DesignError as exc:
             control, control_error = None, str(exc)
-        lo, hi = design.supply_range
+        if control_error is None and lo < design.vcc and not loop_mode:
+            try:  # the top of a fixed control range comes closest to the supply at the lowest supply
+                control_range_of(design, vcc=lo)
+            except DesignError as exc:
+                control_error = f"at the lowest supply {lo:.4g} V: {exc}"
         corner_res: list[Any] = []
         corner_err = None
         for vcc in (lo, hi):

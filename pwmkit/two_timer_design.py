@@ -234,3 +234,8 @@ def operating_point(design: Any) -> tuple[float, float | None, Any]:
         return v_pin, None, loop
     v_source = t.vctl_nominal
     return float(pin_voltage(design, v_source, design.vcc)), v_source, None
+
+
+def circuit_words(topology: str) -> str:
+    """Short name of the circuit for headings: "pot astable", "two-timer PWM" …"""
+    return "two-timer PWM (astable clock + monostable)" if topology == "two-timer" else f"{topology} astable"

@@ -25,6 +25,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
+from ..two_timer_design import circuit_words as _circuit_words
 from ._base import esc, log
 from .checks import CautionsBox, FindingsPanel
 from .formulas import FormulasPanel
@@ -74,7 +75,7 @@ def _header_html(design: Design, evaluation: Any) -> str:
     load = "no load" if design.load is None else f"{design.load.kind} load"
     return (f"<div class='pwmkit-header' style='display:flex;gap:16px;align-items:baseline;flex-wrap:wrap'>"
             f"<span style='font-size:16px;font-weight:700'>{esc(design.name)}</span>"
-            f"<span style='color:#5a6270'>{esc(design.timing.topology)} astable · {esc(design.timing.timer)} timer · "
+            f"<span style='color:#5a6270'>{esc(_circuit_words(design.timing.topology))} · {esc(design.timing.timer)} timer · "
             f"{design.vcc:.3g} V · {esc(load)}</span><span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
 
 

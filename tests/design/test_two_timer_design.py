@@ -187,3 +187,19 @@ def test_loop_chain_matches_the_public_models():
         ref = two_timer_pwm(vctl=v, **MAT.timing.two_timer_kwargs(MAT.vcc)).duty
         assert d_of_v(v) == pytest.approx(ref, rel=1e-12)
     assert d_range[0] < d_of_v(5.0) < d_range[1]
+
+
+def test_cmos_timer_without_divider_data_is_a_clear_error():
+    with pytest.raises(DesignError, match="heater.ntc_r25: .*internal divider"):
+        evaluate(MAT.with_timing(timer="cmos"), spread=False)
+    d = MAT.replace(load=None).with_timing(timer="cmos", r_ctl_source=1e3)
+    with pytest.raises(DesignError, match="timing.r_ctl_source"):
+        evaluate(d, spread=False)
+
+
+def test_control_range_checked_at_the_lowest_supply():
+    # 9.9 V at the pin fits at 12 V (limit about 10.2 V) but not at 10 V supply
+    d = MAT.replace(load=None, vcc_min=10.0).with_timing(vctl_min=4.0, vctl_max=9.9)
+    ev = evaluate(d, spread=False)
+    f = ev.findings.by_id("two_timer.control_range")
+    assert f.severity == "fail" and "lowest supply" in f.explanation
