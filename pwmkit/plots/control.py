@@ -72,7 +72,7 @@ class HeaterPlot:
                  legend_label="surface limit")
         fig.scatter("duty", "t_element_c", source=self.marker, marker="diamond", size=13, fill_color=TRACE["marker"],
                     line_color="white", legend_label="operating point")
-        style_legend(fig, "top_left")
+        style_legend(fig, "bottom_right")
         self.figure = fig
         self.layout = fig
 
