@@ -85,7 +85,7 @@ def fault_temperature(design: Any, ev: Any) -> Any:
 def loop_stability(design: Any, ev: Any) -> Any:
     """Stability and strength of the thermistor loop.
 
-    Phase margin of the linearised loop (thermal pole, sensor lag, one PWM period of delay): fail
+    Phase margin of the linearised loop (thermal pole, sensor lag, half a PWM period of sampling delay): fail
     below 20° (our judgement), warn below 45° (the usual aim; K. Ogata, *Modern Control
     Engineering*, 5th ed., §7-6, from memory); warn when the loop saturates at a duty limit or when
     the droop exceeds 0.5 K per K of ambient (our judgement). Origin: from-memory / our judgement.

@@ -16,7 +16,8 @@ frequency the element temperature ripples around its mean like an RC node under 
 A thermistor divider (NTC at the bottom, set resistor at the top) feeding the control pin of the
 two-timer PWM (:func:`pwmkit.timing.two_timer_pwm`) closes a proportional loop:
 :func:`closed_loop` finds the steady temperature and the loop's phase margin (thermal pole,
-sensor lag and one PWM period of sampling delay).
+sensor lag and the sampling of the control voltage once per PWM period, taken as a hold of half a
+period).
 
 References
 ----------
@@ -28,6 +29,9 @@ References
    (common practice).
 .. [4] K. Ogata, *Modern Control Engineering*, 5th ed., Prentice Hall 2010, §7-6 (phase margin)
    (from memory).
+.. [5] G. F. Franklin, J. D. Powell, M. L. Workman, *Digital Control of Dynamic Systems*, 3rd ed.,
+   Addison-Wesley 1998: a zero-order hold behaves like a delay of half the sample period
+   (common practice; from memory).
 """
 
 from __future__ import annotations
@@ -284,7 +288,7 @@ class ClosedLoop:
     phase_margin_deg : phase margin [°] (180 when the gain never reaches 1)
     stable : phase margin above 0
     tau_plant, tau_sensor, delay : thermal time constant (with the element's own self-regulation),
-        sensor lag and sampling delay (one PWM period) [s]
+        sensor lag and sampling delay (half a PWM period: a sample and hold once per period) [s]
     saturated : the steady state sits on a limit of the duty range (no regulation there)
     """
 
@@ -435,7 +439,7 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
     r_eff = 1.0 / g_th
     gain = max(0.0, -dd_dt * dp_dd * r_eff)
     tau_p = float(q["c_th"]) * r_eff
-    delay = 1.0 / float(q["f"])
+    delay = 0.5 / float(q["f"])  # sample and hold once per PWM period: half a period of delay
     fc, pm = phase_margin(gain, tau_p, tau_s, delay)
     t_full = _crossing(vctl_of_t, v_hi, ta - 80.0, t_full + 80.0)
     t_off = _crossing(vctl_of_t, v_lo, ta - 80.0, ta + rise_at(1.0) + 80.0)
