@@ -85,11 +85,35 @@ def _value(expr: Any, values: dict[Any, float]) -> float:
     return float(expr.subs({k: sp.Float(v, 30) for k, v in values.items()}).evalf(30))
 
 
-def worked_two_timer(design: Design, quantity: str = "t_high", fmt: str = "unicode") -> str:
-    """A quantity of a two-timer design worked out (expression, numbers, result); fmt "unicode" or "markdown"."""
+def _steps(quantity: str, e: dict[str, Any]) -> list[tuple[str, Any, Any]]:
+    """(name, short form, full expression) of the lines a quantity is worked through."""
     import sympy as sp
 
-    from .formulas import _number_text, _pretty_with_numbers, _result_text
+    tw, tt, th, tl, tp = (sp.Symbol(n, positive=True) for n in ("t_w", "t_trigger", "t_high", "t_low", "T"))
+    clock = [("t_trigger", e["t_trigger"], e["t_trigger"]), ("T", e["period"], e["period"])]
+    if quantity == "t_high":
+        return [("t_w", e["t_w"], e["t_w"]), ("t_trigger", e["t_trigger"], e["t_trigger"]),
+                ("t_high", sp.Max(tw, tt), e["t_high"])]
+    if quantity == "period":
+        return [("T", e["period"], e["period"])]
+    if quantity == "t_low":
+        return [*clock[1:], ("t_high", sp.Max(tw, tt), e["t_high"]), ("t_low", tp - th, e["t_low"])]
+    if quantity == "frequency":
+        return [("T", e["period"], e["period"]), ("f", 1 / tp, e["frequency"])]
+    return [("t_high", sp.Max(tw, tt), e["t_high"]), ("T", e["period"], e["period"]), ("D", th / tp, e["duty"])]
+
+
+def worked_two_timer(design: Design, quantity: str = "t_high", fmt: str = "unicode") -> str:
+    """A quantity of a two-timer design worked out with its numbers; fmt "unicode" or "markdown".
+
+    The pulse and the clock are shown with every symbol replaced by the design's number; the
+    derived quantities through them (``t_high = max(t_w, t_trigger)``, ``t_low = T − t_high`` …).
+    Each line's value comes from the full expression at the design's numbers.
+    """
+    import sympy as sp
+
+    from ..values import format_value
+    from .formulas import _indent_eq, _number_text, _pretty_with_numbers, _result_text
 
     if quantity not in _QUANTITIES:
         raise DesignError(f"quantity: {quantity!r} is not known; allowed: {', '.join(_QUANTITIES)}")
@@ -97,18 +121,40 @@ def worked_two_timer(design: Design, quantity: str = "t_high", fmt: str = "unico
         raise DesignError(f"fmt: {fmt!r} is not allowed for the two-timer sheet; allowed: unicode, markdown")
     discharge, values = two_timer_values(design)
     e = two_timer_expressions(discharge)
-    expr = e[quantity]
-    value = _value(expr, values)
-    result = _result_text(quantity, value)
-    lhs = _PLAIN[quantity]
+    units = {"t_w": "s", "t_trigger": "s", "t_high": "s", "t_low": "s", "T": "s", "f": "Hz", "D": "1"}
+    known: dict[Any, float] = dict(values)
+    for name, key in (("t_w", "t_w"), ("t_trigger", "t_trigger"), ("t_high", "t_high"), ("T", "period"),
+                      ("t_low", "t_low")):
+        known[sp.Symbol(name, positive=True)] = _value(e[key], values)
+    style = "unicode" if fmt == "unicode" else "latex"
+    lines: list[str] = []
+    for name, short, full in _steps(quantity, e):
+        value = _value(full, values)
+        lhs = sp.Symbol(name)
+        text = _result_text("duty", value) if name == "D" else format_value(value, units[name], 5)
+        nums = {k: _number_text(known[k], style) for k in short.free_symbols}
+        if isinstance(short, sp.Max):  # printed by hand: the pretty printers do not reach into Max
+            a, b = (str(x) for x in short.args)
+            sym = f"max({a}, {b})" if fmt == "unicode" else f"\\max({sp.latex(short.args[0])}, {sp.latex(short.args[1])})"
+            num = f"max({nums[short.args[0]]}, {nums[short.args[1]]})" if fmt == "unicode" else (
+                f"\\max({nums[short.args[0]]}, {nums[short.args[1]]})")
+            if fmt == "markdown":
+                lines.append(f"$$\n{sp.latex(lhs)} = {sym} = {num} = {text}\n$$")
+            else:
+                lines += [f"{name} = {sym}", f"{name} = {num}", f"{name} = {text}"]
+            continue
+        if fmt == "markdown":
+            tex = sp.latex(short, ln_notation=True)
+            tex_n = sp.latex(short.subs({k: sp.Symbol(v) for k, v in nums.items()}), ln_notation=True)
+            lines.append(f"$$\n{sp.latex(lhs)} = {tex} = {tex_n} = {text.replace('%', chr(92) + '%')}\n$$")
+        else:
+            general = sp.pretty(sp.Eq(lhs, short, evaluate=False), use_unicode=True, wrap_line=False)
+            lines += [general, _indent_eq(name, _pretty_with_numbers(short, nums)), f"{name} = {text}"]
+    head = f"{_PLAIN[quantity]} — {_MEANING[quantity]} [{_UNITS[quantity]}]"
     if fmt == "markdown":
-        nums = {k: _number_text(v, "latex") for k, v in values.items()}
-        tex = sp.latex(expr, ln_notation=True)
-        tex_n = sp.latex(expr.subs({k: sp.Symbol(nums[k]) for k in expr.free_symbols}), ln_notation=True)
-        return "\n\n".join(f"$$\n{lhs} = {x}\n$$" for x in (tex, tex_n, result.replace("%", "\\%")))
-    general = sp.pretty(sp.Eq(sp.Symbol(lhs), expr, evaluate=False), use_unicode=True, wrap_line=False)
-    numbers = _pretty_with_numbers(expr, {k: _number_text(values[k], "unicode") for k in expr.free_symbols})
-    return f"{lhs} — {_MEANING[quantity]} [{_UNITS[quantity]}]\n{general}\n{lhs} = {numbers}\n{lhs} = {result}"
+        return "\n\n".join(lines)
+    lines[-1] = f"{_PLAIN[quantity]} = {_result_text(quantity, _value(e[quantity], values))}"
+    return "\n".join([head, *lines])
 
 
 def formula_sheet_two_timer(design: Design, fmt: str = "markdown") -> str:
