@@ -355,6 +355,9 @@ class HeaterLoad:
     tau_sensor : thermistor lag behind the element [s]
     t_cutout_c : opening temperature of a thermal cut-out in series with the element [°C]
         (None = none fitted)
+    r_tolerance : relative tolerance of the element resistance [1]
+    ntc_tolerance : relative tolerance of the thermistor's R25 [1] (5 %: typical value — check
+        your part's data sheet)
     """
 
     r_cold: Any = 8.0
@@ -368,6 +371,8 @@ class HeaterLoad:
     r_set: Any = None
     tau_sensor: Any = 60.0
     t_cutout_c: Any = None
+    r_tolerance: Any = 0.1
+    ntc_tolerance: Any = 0.05
     kind: Literal["heater"] = field(default="heater", init=False)
 
     def __post_init__(self) -> None:
@@ -382,6 +387,8 @@ class HeaterLoad:
         _num(self, "r_set", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
         _num(self, "tau_sensor", unit="s", minimum=0.0)
         _num(self, "t_cutout_c", unit="°C", optional=True, minimum=0.0, maximum=500.0)
+        _num(self, "r_tolerance", minimum=0.0, maximum=0.9)
+        _num(self, "ntc_tolerance", minimum=0.0, maximum=0.9)
         if (self.ntc_r25 is None) != (self.r_set is None):
             raise DesignError("heater.ntc_r25: the thermistor loop needs both ntc_r25 and r_set (or neither)")
 

@@ -365,6 +365,9 @@ class Evaluation:
             group("heater", hp.hot, "t_element_hot_c=t_element_c")
             put("heater.t_fault_c", hp.t_fault_c)
             group("heater", hp.loop, "loop_t_c=t_element_c loop_gain=gain phase_margin_deg crossover")
+            if hp.loop_spread is not None:
+                put("heater.loop_t_min_c", hp.loop_spread[0])
+                put("heater.loop_t_max_c", hp.loop_spread[1])
         put("findings.fail_count", float(self.findings.fail_count))
         put("findings.warn_count", float(self.findings.warn_count))
         put("findings.worst", self.findings.worst)

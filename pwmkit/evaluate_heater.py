@@ -39,6 +39,9 @@ class HeaterPart:
     loop : ClosedLoop or None (no thermistor loop)
     loop_hot : ClosedLoop at the highest ambient, or None
     t_fault_c : element temperature at full duty and the highest ambient (switch shorted, sensor lost) [°C]
+    loop_spread : (lowest, highest) closed-loop element temperature at the nominal ambient over every
+        corner of the tolerance box, or None (no loop, or quick mode) [°C]
+    loop_spread_note : why the corners could not all be evaluated, or None
     """
 
     element: Any
@@ -47,6 +50,8 @@ class HeaterPart:
     loop: Any
     loop_hot: Any
     t_fault_c: float
+    loop_spread: tuple[float, float] | None = None
+    loop_spread_note: str | None = None
 
 
 def heater_kwargs(design: Any, rds_on: float = 0.0) -> dict[str, Any]:
@@ -93,10 +98,12 @@ def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[f
     return duty_of_vctl, vctl_of_t, (float(probe.duty_min), float(probe.duty_max)), (v_lo, v_hi)
 
 
-def heater_part(design: Any, duty: float, frequency: float, rds_on: float, loop: Any = None) -> HeaterPart:
+def heater_part(design: Any, duty: float, frequency: float, rds_on: float, loop: Any = None,
+                spread: bool = False) -> HeaterPart:
     """Heater figures at the design's operating duty (the closed-loop duty when there is a loop).
 
-    ``loop``: the nominal-ambient :class:`~pwmkit.loads.heater.ClosedLoop` when already computed.
+    ``loop``: the nominal-ambient :class:`~pwmkit.loads.heater.ClosedLoop` when already computed;
+    ``spread``: also the closed-loop temperature over the tolerance corners (:func:`loop_corners`).
     """
     from .loads.heater import closed_loop, heater
 
@@ -116,8 +123,41 @@ def heater_part(design: Any, duty: float, frequency: float, rds_on: float, loop:
     sweep = heater(duty=np.linspace(0.0, 1.0, DUTY_SWEEP_POINTS), frequency=frequency, t_ambient_c=design.t_ambient_c,
                    **kw)
     fault = heater(duty=1.0, frequency=frequency, t_ambient_c=design.t_ambient_max_c, **kw)
+    band, note = (loop_corners(design, frequency, rds_on) if spread and loop is not None else (None, None))
     return HeaterPart(element=element, hot=hot, sweep=sweep, loop=loop, loop_hot=loop_hot,
-                      t_fault_c=float(fault.t_element_c))
+                      t_fault_c=float(fault.t_element_c), loop_spread=band, loop_spread_note=note)
+
+
+def loop_corners(design: Any, frequency: float, rds_on: float) -> tuple[tuple[float, float] | None, str | None]:
+    """(lowest, highest) closed-loop temperature over the corners of the tolerance box [°C], and a note.
+
+    Box: the set resistor and the monostable resistor within ``timing.r_tolerance``, the
+    monostable capacitor within ``timing.c_tolerance``, the thermistor's R25 within
+    ``heater.ntc_tolerance``, the element within ``heater.r_tolerance`` — 2^5 corners at the
+    nominal ambient and supply (the supply cancels in the ratiometric divider to first order).
+    """
+    import dataclasses
+    import itertools
+
+    from .loads.heater import closed_loop
+
+    t, h = design.timing, design.load
+    temps: list[float] = []
+    for s_set, s_rm, s_cm, s_ntc, s_el in itertools.product((-1.0, 1.0), repeat=5):
+        load = dataclasses.replace(h, r_set=h.r_set * (1 + s_set * t.r_tolerance),
+                                   ntc_r25=h.ntc_r25 * (1 + s_ntc * h.ntc_tolerance),
+                                   r_cold=h.r_cold * (1 + s_el * h.r_tolerance))
+        d = dataclasses.replace(design, load=load,
+                                timing=dataclasses.replace(t, r_mono=t.r_mono * (1 + s_rm * t.r_tolerance),
+                                                           c_mono=t.c_mono * (1 + s_cm * t.c_tolerance)))
+        try:
+            d_of_v, v_of_t, d_range, v_range = loop_chain(d)
+            lp = closed_loop(d_of_v, v_of_t, duty_range=d_range, vctl_range=v_range, tau_sensor=h.tau_sensor,
+                             frequency=frequency, t_ambient_c=design.t_ambient_c, **heater_kwargs(d, rds_on))
+        except DesignError as exc:
+            return None, f"a tolerance corner cannot be evaluated: {exc}"
+        temps.append(lp.t_element_c)
+    return (min(temps), max(temps)), None
 
 
 def heater_rows(ev: Any) -> list[tuple[str, str]]:
@@ -142,4 +182,10 @@ def heater_rows(ev: Any) -> list[tuple[str, str]]:
         rows.append(("thermistor loop", f"holds {lp.t_element_c:.3g} °C at {100 * lp.duty:.3g} % duty "
                      f"(control pin {lp.vctl:.3g} V); gain {lp.gain:.3g}, {margin}"
                      + ("; saturated at a duty limit" if lp.saturated else "")))
+    if hp.loop_spread is not None:
+        lo, hi = hp.loop_spread
+        rows.append(("set temperature over the tolerances", f"{lo:.3g} … {hi:.3g} °C (worst-case corners of set "
+                     "resistor, thermistor, monostable parts and element)"))
+    elif hp.loop_spread_note:
+        rows.append(("set temperature over the tolerances", hp.loop_spread_note))
     return rows

@@ -133,7 +133,8 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                                             design.t_ambient_max_c, i_off=mc.i_max,
                                             q_rr=dio.q_rr if dio.has_recovery else 0.0)
         elif design.load is not None:
-            heater = heater_part(design, float(timing.duty), f, rds, loop=loop if loop_mode else None)
+            heater = heater_part(design, float(timing.duty), f, rds, loop=loop if loop_mode else None,
+                                 spread=bool(spread))
             if gate is not None:
                 el = heater.hot
                 p["mosfet"] = mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c,

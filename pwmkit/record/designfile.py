@@ -93,7 +93,7 @@ UNITS: Mapping[str, str] = {
     "timing.r_ctl_source": "Ω",
     "load.r_cold": "Ω", "load.alpha": "1/K", "load.t_ref_c": "°C", "load.r_th": "K/W", "load.c_th": "J/K",
     "load.t_surface_max_c": "°C", "load.ntc_r25": "Ω", "load.ntc_beta": "K", "load.r_set": "Ω",
-    "load.tau_sensor": "s",
+    "load.tau_sensor": "s", "load.ntc_tolerance": "%", "load.r_tolerance": "%",
 }
 
 #: Longest text accepted for a text field [characters].

@@ -203,3 +203,22 @@ def test_control_range_checked_at_the_lowest_supply():
     ev = evaluate(d, spread=False)
     f = ev.findings.by_id("two_timer.control_range")
     assert f.severity == "fail" and "lowest supply" in f.explanation
+
+
+def test_set_point_spread_brackets_the_nominal_and_grows_with_tolerance():
+    lo, hi = FULL.heater.loop_spread
+    assert lo < FULL.heater.loop.t_element_c < hi
+    assert QUICK.heater.loop_spread is None  # quick mode: no corners
+    wide = MAT.replace(load=dataclasses.replace(MAT.load, ntc_tolerance=0.2))
+    lo2, hi2 = evaluate(wide, n_mc=1000).heater.loop_spread
+    assert lo2 < lo and hi2 > hi
+    # an independent corner: a warmer-reading thermistor (lower R25 = reads warm) gives a lower set temperature
+    from pwmkit.evaluate_heater import heater_kwargs, loop_chain
+    from pwmkit.loads.heater import closed_loop
+
+    cold = MAT.replace(load=dataclasses.replace(MAT.load, ntc_r25=MAT.load.ntc_r25 * 0.95))
+    d_of_v, v_of_t, d_range, v_range = loop_chain(cold)
+    lp = closed_loop(d_of_v, v_of_t, duty_range=d_range, vctl_range=v_range, tau_sensor=60.0,
+                     frequency=float(FULL.timing.frequency), t_ambient_c=MAT.t_ambient_c,
+                     **heater_kwargs(cold, float(FULL.gate.rds_on_25)))
+    assert lo <= lp.t_element_c < FULL.heater.loop.t_element_c
