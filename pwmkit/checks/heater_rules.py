@@ -110,7 +110,7 @@ def loop_stability(design: Any, ev: Any) -> Any:
                        f"(element {fmt(lp.t_element_c, '°C')}).",
                        "Move the set point (r_set) into the heater's range.", "common-practice")
     if lp.droop > _DROOP_WARN:
-        return finding("heater.loop", "warn", title, lp.droop, _DROOP_WARN, "K/K",
+        return finding("heater.loop", "warn", title, lp.droop, _DROOP_WARN, "",
                        f"Loop gain {lp.gain:.3g}: the set temperature moves {lp.droop:.2g} K per K of ambient.",
                        "Raise the loop gain: a stiffer divider (smaller r_set and thermistor) or a buffer.",
                        "common-practice")

@@ -26,7 +26,7 @@ def circuit_text(design: Any, evaluation: Any) -> list[str]:
     fam = get_timer(t.timer)
     out = [f"Two {fam.description}s from {_fv(design.vcc, 'V')}: the first runs as a classic astable clock "
            f"(R1 {_fv(t.ra, 'Ω')}, R2 {_fv(t.rb, 'Ω')}, C1 {_fv(t.c, 'F')}) whose short output-low time triggers "
-           f"the second, a monostable (R4 {_fv(t.r_mono, 'Ω')}, C3 {_fv(t.c_mono, 'F')}). The PWM output is the "
+           f"the second, a monostable (R3 {_fv(t.r_mono, 'Ω')}, C4 {_fv(t.c_mono, 'F')}). The PWM output is the "
            "monostable's pulse: its frequency is the clock's, its width is set by the voltage on the monostable's "
            "control pin, which is its upper threshold."]
     tt = getattr(evaluation, "two_timer", None)
