@@ -23,6 +23,15 @@ __all__ = ["MonostableResult", "monostable", "ControlPinDrive", "control_pin_dri
            "control_pin_sweep", "discharge_resistance", "start_level"]
 
 
+def _html_table(caption: str, rows: list[tuple[str, str]]) -> str:
+    """A small two-column HTML table for notebook displays (escaped)."""
+    import html
+
+    body = "".join(f"<tr><th style='text-align:left'>{html.escape(k)}</th><td>{html.escape(v)}</td></tr>"
+                   for k, v in rows)
+    return f"<table class='pwmkit-result'><caption>{html.escape(caption)}</caption>{body}</table>"
+
+
 def _out(x: Any, shape: tuple[int, ...]) -> Any:
     x = np.asarray(x, dtype=float)
     if not shape and x.ndim == 0:
@@ -61,6 +70,16 @@ class MonostableResult:
             return (f"MonostableResult({self.timer}: width={format_value(self.width, 's', 5)}, "
                     f"start {self.v_start:.4g} V → threshold {self.v_threshold:.4g} V)")
         return f"MonostableResult({self.timer}: arrays of shape {np.shape(self.width)})"
+
+    def _repr_html_(self) -> str:
+        from ..values import format_value as fv
+
+        if np.ndim(self.width) != 0:
+            return f"<p>MonostableResult over arrays of shape {np.shape(self.width)}</p>"
+        return _html_table(f"monostable pulse — {self.timer} timer", [
+            ("pulse width", fv(self.width, "s", 5)), ("start level", fv(self.v_start, "V", 4)),
+            ("threshold (control pin)", fv(self.v_threshold, "V", 4)), ("trigger level", fv(self.v_trigger, "V", 4)),
+            ("timing R / C", f"{fv(self.r, 'Ω', 4)} / {fv(self.c, 'F', 4)}")])
 
 
 def discharge_resistance(timer: str | TimerFamily) -> float:

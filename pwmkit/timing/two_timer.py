@@ -98,6 +98,22 @@ class TwoTimerPwm:
                     f"reachable {100 * self.duty_min:.3g} … {100 * self.duty_max:.4g} %)")
         return f"TwoTimerPwm(arrays of shape {np.shape(self.duty)})"
 
+    def _repr_html_(self) -> str:
+        from ..values import format_value as fv
+        from .monostable import _html_table
+
+        if np.ndim(self.duty) != 0:
+            return f"<p>TwoTimerPwm over arrays of shape {np.shape(self.duty)}</p>"
+        return _html_table(f"two-timer PWM — {self.clock_timer} clock, {self.timer} monostable", [
+            ("frequency (clock)", fv(self.frequency, "Hz", 5)), ("duty", f"{100 * self.duty:.3f} %"),
+            ("control pin", fv(self.vctl, "V", 4)), ("output pulse / RC pulse", f"{fv(self.t_high, 's', 5)} / "
+                                                                              f"{fv(self.width, 's', 5)}"),
+            ("trigger pulse (minimum pulse)", fv(self.t_trigger, "s", 4)),
+            ("start level / rest level", f"{fv(self.v_start, 'V', 4)} / {fv(self.v_rest, 'V', 4)}"),
+            ("recovery after the pulse", fv(self.t_recovery, "s", 3)),
+            ("reachable duty", f"{100 * self.duty_min:.3g} … {100 * self.duty_max:.4g} % (pin "
+                               f"{fv(self.vctl_min, 'V', 3)} … {fv(self.vctl_max, 'V', 3)})")])
+
 
 def _inputs(ra: Any, rb: Any, c: Any, r_mono: Any, c_mono: Any, vcc: Any, vctl: Any, timer: Any, clock_timer: Any,
             vsat: Any) -> dict[str, Any]:
@@ -258,6 +274,20 @@ class ControlRange:
         return (f"ControlRange({self.vctl_low:.4g} … {self.vctl_high:.4g} V → duty {100 * self.duty_low:.3g} … "
                 f"{100 * self.duty_high:.4g} %, linearity ±{100 * self.linearity_error:.3g} pt, "
                 f"f={self.frequency:.5g} Hz)")
+
+    def _repr_html_(self) -> str:
+        from ..values import format_value as fv
+        from .monostable import _html_table
+
+        return _html_table("two-timer PWM over the control range", [
+            ("control range (pin)", f"{fv(self.vctl_low, 'V', 4)} … {fv(self.vctl_high, 'V', 4)}"),
+            ("duty", f"{100 * self.duty_low:.3g} … {100 * self.duty_high:.4g} %"),
+            ("slope", f"{100 * self.slope:.3g} points/V"),
+            ("linearity (endpoint line)", f"±{100 * self.linearity_error:.3g} points at {fv(self.vctl_worst, 'V', 3)}"),
+            ("reachable duty", f"{100 * self.duty_reachable[0]:.3g} … {100 * self.duty_reachable[1]:.4g} %"),
+            ("supply sensitivity", f"{100 * self.supply_sensitivity:+.3g} points/V fixed control, "
+                                   f"{100 * self.supply_sensitivity_ratiometric:+.2g} points/V ratiometric"),
+            ("frequency", fv(self.frequency, "Hz", 5))])
 
 
 def control_range(*, vctl_low: Any, vctl_high: Any, points: int = _LINEARITY_POINTS, **kwargs: Any) -> ControlRange:
