@@ -124,6 +124,8 @@ class Dashboard(w.VBox):
 
             self.control_heater = ControlHeaterPanel(s)
             pages.insert(0, ("Control & heater", self.control_heater))
+        if two_timer:  # no potentiometer in the two-timer PWM
+            pages = [(t, p) for t, p in pages if p is not self.pot_travel]
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
         self.tabs = w.Tab(children=[p for _t, p in pages])
