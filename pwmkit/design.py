@@ -553,6 +553,9 @@ class Design:
                 ("timing capacitor", f"{format_value(t.c, 'F')} ({t.c_dielectric})")]
         if t.topology == "pot":
             rows.append(("potentiometer", f"{format_value(t.pot, 'Ω')}, wiper {100 * t.wiper:.0f} %"))
+        if t.topology == "two-timer":
+            rows += [("monostable R / C", f"{format_value(t.r_mono, 'Ω')} / {format_value(t.c_mono, 'F')}"),
+                     ("control range", f"{format_value(t.vctl_min, 'V')} … {format_value(t.vctl_max, 'V')}")]
         if self.load is not None:
             rows.append(("load", self.load.kind))
         body = "".join(f"<tr><th style='text-align:left;padding-right:1em'>{html.escape(k)}</th>"
