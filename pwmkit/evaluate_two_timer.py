@@ -147,7 +147,8 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
             fw = None if req.frequency is None else (req.frequency * (1 - req.frequency_tolerance),
                                                       req.frequency * (1 + req.frequency_tolerance))
             try:
-                spread_res = monte_carlo_two_timer(design, n=int(n_mc), seed=int(seed), frequency_window=fw)
+                spread_res = monte_carlo_two_timer(design, n=int(n_mc), seed=int(seed), frequency_window=fw,
+                                                   v_pin=v_pin if loop_mode else None)
                 if spread_res.n_failed:
                     stops = True
                     notes.append(f"{spread_res.n_failed} of {spread_res.n} Monte Carlo samples do not work "
@@ -156,7 +157,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                 notes.append(f"Monte Carlo: {exc}")
                 stops = True
             try:
-                worst = worst_case_two_timer(design)
+                worst = worst_case_two_timer(design, v_pin=v_pin if loop_mode else None)
             except DesignError as exc:
                 notes.append(str(exc))
                 stops = True

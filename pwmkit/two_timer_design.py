@@ -8,11 +8,13 @@ internal divider). This module turns such a design into model calls
 tolerance spread:
 
 - Monte Carlo: every resistor within ``r_tolerance``, every capacitor within ``c_tolerance``
-  (uniform), the supply uniform over ``vcc_min … vcc_max``, the control voltage held at its
-  nominal value (a fixed external source); samples whose pulse does not end before the next
-  clock trigger count as failures;
-- worst case: all 2^k corners of the same box, one vectorised evaluation (the duty is monotonic
-  in every parameter of the log law, the frequency in every clock parameter, so corners bound it).
+  (uniform), the supply uniform over ``vcc_min … vcc_max``, the timer family's own errors
+  (initial accuracy, drift, supply sensitivity) on the clock and on the pulse; the control
+  voltage held at the operating point (a fixed source; a thermistor divider scales with the
+  supply); samples whose pulse does not end before the next clock trigger count as failures;
+- worst case: all 2^k corners of the parts and supply box, one vectorised evaluation (the duty is
+  monotonic in every parameter of the log law, the frequency in every clock parameter, so
+  corners bound it).
 
 References
 ----------
@@ -62,6 +64,13 @@ def two_timer_at(design: Any, vcc: float, v_source: Any) -> Any:
     return two_timer_pwm(vctl=pin_voltage(design, v_source, vcc), **design.timing.two_timer_kwargs(vcc))
 
 
+def two_timer_at_pin(design: Any, vcc: float, v_pin: float) -> Any:
+    """:class:`~pwmkit.timing.TwoTimerPwm` of a design with its control pin at ``v_pin`` [V]."""
+    from .timing import two_timer_pwm
+
+    return two_timer_pwm(vctl=v_pin, **design.timing.two_timer_kwargs(vcc))
+
+
 def output_timing(design: Any, vcc: float, v_source: Any) -> Any:
     """PWM output timing of a two-timer design as an AstableResult (see :func:`as_astable_result`)."""
     return as_astable_result(two_timer_at(design, vcc, v_source), design)
@@ -88,15 +97,22 @@ def _box(design: Any) -> list[tuple[str, float, float]]:
     return out
 
 
-def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray, v_source: float) -> tuple[
-        np.ndarray, np.ndarray, np.ndarray, dict[str, int]]:
-    """(frequency, duty, ok, reasons) of many design points, failures masked instead of raised."""
+def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray, v_source: float | None,
+                     v_pin: float | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray, dict[str, int]]:
+    """(frequency, duty, ok, reasons) of many design points, failures masked instead of raised.
+
+    The control pin sits at ``pin_voltage(v_source)`` (a fixed source), or — with ``v_pin`` — at
+    ``v_pin`` scaled with the supply (a ratiometric divider such as the thermistor's).
+    """
     from .timing import astable, two_timer_pwm
     from .timing.monostable import start_level
     from .timing.monostable_symbolic import monostable_numeric
 
     t = design.timing
-    vctl = np.asarray(pin_voltage(design, v_source, vcc), dtype=float) * np.ones_like(vcc)
+    if v_pin is not None:
+        vctl = float(v_pin) * vcc / design.vcc
+    else:
+        vctl = np.asarray(pin_voltage(design, v_source, vcc), dtype=float) * np.ones_like(vcc)
     clk = astable("classic", ra=values["ra"], rb=values["rb"], c=values["c"], vcc=vcc, timer=t.timer,
                   **({} if t.vsat is None else {"vsat": t.vsat}))
     v_rest = start_level(values["r_mono"], vcc, t.timer) if t.vsat is None else np.full_like(vcc, t.vsat)
@@ -121,12 +137,21 @@ def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray
 
 
 def monte_carlo_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, frequency_window: Any = None,
-                          duty_window: Any = None, bins: int = 50) -> Any:
-    """Monte Carlo spread of the two-timer PWM's frequency and duty at the nominal control voltage.
+                          duty_window: Any = None, bins: int = 50, v_pin: float | None = None,
+                          timer_errors: bool = True) -> Any:
+    """Monte Carlo spread of the two-timer PWM's frequency and duty at the operating control voltage.
+
+    Parts within their tolerances and the supply over its range (module docstring); ``v_pin``:
+    the operating pin voltage of a ratiometric control (default: the nominal source voltage through
+    :func:`pin_voltage`). ``timer_errors`` adds the timer family's initial accuracy, temperature
+    drift over the ambient range and supply sensitivity as independent uniform bands on the
+    clock's frequency and on the monostable's pulse (the family's astable figures, used for the
+    monostable too — data sheets give it a tighter one, so this errs on the wide side).
 
     Returns a :class:`pwmkit.tolerance.SpreadResult` (topology "two-timer"); failures (pulse longer
     than the period) are counted in ``n_failed``, never returned as numbers.
     """
+    from .parts.timers import get_timer
     from .tolerance import Histogram, SpreadResult, _histogram
 
     if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or not 1 <= n <= 20_000_000:
@@ -138,12 +163,31 @@ def monte_carlo_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, freque
     lo, hi = design.supply_range
     vcc = rng.uniform(lo, hi, int(n)) if hi > lo else np.full(int(n), design.vcc)
     v_src = t.vctl_nominal
-    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, v_src)
+    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, v_src, v_pin)
+    sources_timer: tuple[str, ...] = ()
+    if timer_errors:
+        fam = get_timer(t.timer)
+        t_lo, t_hi = design.t_ambient_min_c, design.t_ambient_max_c
+        temp = rng.uniform(t_lo, t_hi, int(n))
+
+        def band() -> np.ndarray:
+            u = rng.uniform(-1.0, 1.0, (3, int(n)))
+            return (fam.initial_accuracy * u[0] + fam.drift_ppm_per_k * 1e-6 * np.abs(temp - 25.0) * u[1]
+                    + fam.supply_sensitivity_per_v * np.abs(vcc - design.vcc) * u[2])
+
+        e_clock, e_pulse = band(), band()
+        freq = freq * (1.0 + e_clock)
+        duty = duty * (1.0 + e_pulse) * (1.0 + e_clock)  # pulse longer, period shorter
+        ok &= duty < 1.0
+        sources_timer = (f"timer errors ({fam.name}): initial ±{100 * fam.initial_accuracy:.3g} %, drift "
+                         f"{fam.drift_ppm_per_k:g} ppm/K over {t_lo:g} … {t_hi:g} °C, supply "
+                         f"{100 * fam.supply_sensitivity_per_v:.3g} %/V; on clock and pulse",)
     n_failed = int(n - ok.sum())
     if n_failed == n:
         raise DesignError(f"monte_carlo: none of the {n} samples works ({', '.join(reasons)})")
     freq, duty = freq[ok], duty[ok]
-    nominal = output_timing(design, design.vcc, v_src)
+    nominal = (output_timing(design, design.vcc, v_src) if v_pin is None else
+               as_astable_result(two_timer_at_pin(design, design.vcc, v_pin), design))
     yield_ = None
     if frequency_window is not None or duty_window is not None:
         inside = np.ones(freq.shape, dtype=bool)
@@ -157,6 +201,7 @@ def monte_carlo_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, freque
     sources = tuple(f"{k}: {100 * a:+.4g} … {100 * b:+.4g} % (relative), uniform" for k, a, b in box)
     if hi > lo:
         sources += (f"supply: {lo:g} … {hi:g} V uniform",)
+    sources += sources_timer
     return SpreadResult(
         topology="two-timer", timer=t.timer, n=int(n), n_failed=n_failed, failure_reasons=reasons, seed=seed,
         frequency=freq, duty=duty, nominal_frequency=float(nominal.frequency), nominal_duty=float(nominal.duty),
@@ -166,10 +211,12 @@ def monte_carlo_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, freque
     )
 
 
-def worst_case_two_timer(design: Any) -> Any:
+def worst_case_two_timer(design: Any, v_pin: float | None = None) -> Any:
     """Worst case of frequency and duty over every corner of the tolerance box (supply range included).
 
-    Returns a :class:`pwmkit.tolerance.WorstCaseResult` (method "corners").
+    ``v_pin``: the operating pin voltage of a ratiometric control (as :func:`monte_carlo_two_timer`).
+    Returns a :class:`pwmkit.tolerance.WorstCaseResult` (method "corners"); the timer family's own
+    errors are not in the corners (they are in the Monte Carlo run).
     """
     from .tolerance import ExtremePoint, WorstCaseResult
 
@@ -184,10 +231,11 @@ def worst_case_two_timer(design: Any) -> Any:
         if k != "vcc":
             values[k] = getattr(t, k) * (1.0 + pick)
     vcc = np.where(corners[:, -1] > 0, hi, lo) if hi > lo else np.full(len(corners), design.vcc)
-    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, t.vctl_nominal)
+    freq, duty, ok, reasons = _evaluate_points(design, values, vcc, t.vctl_nominal, v_pin)
     if not np.all(ok):
         raise DesignError(f"worst case: some corners do not work ({', '.join(f'{k}: {v}' for k, v in reasons.items())})")
-    nominal = output_timing(design, design.vcc, t.vctl_nominal)
+    nominal = (output_timing(design, design.vcc, t.vctl_nominal) if v_pin is None else
+               as_astable_result(two_timer_at_pin(design, design.vcc, v_pin), design))
 
     def point(i: int) -> ExtremePoint:
         dev = {k: float(np.where(corners[i, j] > 0, b, a)) for j, (k, a, b) in enumerate(dims)}

@@ -78,10 +78,18 @@ def test_open_loop_two_timer_with_led_load_and_source_resistance():
 
 
 def test_spread_inside_worst_case_and_nominal():
-    sp, wc = FULL.spread, FULL.worst_case
-    assert sp.topology == "two-timer" and sp.n_failed == 0
+    from pwmkit.two_timer_design import monte_carlo_two_timer
+
+    wc = FULL.worst_case
+    assert FULL.spread.topology == "two-timer" and FULL.spread.n_failed == 0
+    # the parts-and-supply box alone stays inside its corners
+    sp = monte_carlo_two_timer(MAT, n=4000, seed=2, v_pin=FULL.two_timer.v_pin, timer_errors=False)
     assert wc.duty_min <= sp.duty.min() and sp.duty.max() <= wc.duty_max
     assert wc.frequency_min <= sp.frequency.min() and sp.frequency.max() <= wc.frequency_max
+    # the timer family's own errors widen the spread
+    assert FULL.spread.frequency_std > sp.frequency_std and FULL.spread.duty_std > sp.duty_std
+    assert any("timer errors" in src for src in FULL.spread.sources)
+    assert sp.nominal_duty == pytest.approx(float(FULL.timing.duty))
     assert wc.duty_min < FULL.timing.duty < wc.duty_max
     # independent corner: every timing part at its low tolerance end shortens the clock period
     # (frequency up); the log law's duty depends on R_M·C_M/T only
