@@ -206,3 +206,19 @@ def test_phase_margin_verdict_against_sampled_simulation(gain_per_k, tau_s, f):
     else:
         assert swing > 1.0
     assert (gain_per_k, tau_s) != (0.5, 300.0) or not loop.stable  # the case is really unstable
+
+
+def test_warm_up_closed_form_against_sympy_integral():
+    """The partial-fraction closed form of the warm-up against sympy's own integral of
+    dt = τ·(β + α·y)/(K − β·y − α·y²)·dy from 0 to 0.9·y_steady (sympy as the reference tool)."""
+    import sympy as sp
+
+    from pwmkit.loads.heater import steady_rise, warm_up_time
+
+    y = sp.Symbol("y", positive=True)
+    for tau, k, alpha, beta in ((2000.0, 40.0, 0.0039, 1.0), (500.0, 12.0, -0.002, 0.97), (10.0, 3.0, 0.0, 1.0)):
+        y1 = steady_rise(k, alpha, beta)
+        integrand = sp.nsimplify(tau) * (sp.nsimplify(beta) + sp.nsimplify(alpha) * y) / (
+            sp.nsimplify(k) - sp.nsimplify(beta) * y - sp.nsimplify(alpha) * y**2)
+        ref = sp.Integral(integrand, (y, 0, sp.Float(0.9 * y1, 30))).evalf(25)
+        assert warm_up_time(tau, k, alpha, beta) == pytest.approx(float(ref), rel=1e-10)
