@@ -288,6 +288,7 @@ class Evaluation:
         ``spread.duty_p01|p50|p99``, ``spread.frequency_std|n_failed|yield``;
         ``worst_case.frequency_min|frequency_max|duty_min|duty_max``;
         ``sensitivity.frequency.<parameter>`` (∂ln f/∂ln x), ``sensitivity.frequency_rel_std``;
+        ``requirements.frequency_low|frequency_high|duty_low|duty_high|frequency_yield|duty_yield``;
         ``findings.fail_count|warn_count|worst``.
         """
         out: dict[str, float | str] = {}
@@ -352,6 +353,12 @@ class Evaluation:
             for row in self.sensitivity.rows:
                 put(f"sensitivity.frequency.{row.name}", row.s_frequency)
             put("sensitivity.frequency_rel_std", self.sensitivity.frequency_rel_std)
+        rs = self.requirement_spread
+        if rs is not None:
+            group("requirements", rs, "frequency_low frequency_high duty_low duty_high")
+            for key in ("frequency_yield", "duty_yield"):
+                if getattr(rs, key) is not None:
+                    put(f"requirements.{key}", getattr(rs, key))
         put("findings.fail_count", float(self.findings.fail_count))
         put("findings.warn_count", float(self.findings.warn_count))
         put("findings.worst", self.findings.worst)

@@ -92,6 +92,7 @@ class RequirementSpread:
         highest bottom end and lowest top end over the corners (kind "reach") [1]
     duty_low_at, duty_high_at : the corners (text)
     duty_yield : Monte Carlo share meeting the duty requirement [1] or None
+    yield_ : Monte Carlo share meeting both (the same builds) [1]
     n : Monte Carlo samples; n_corners : worst-case points evaluated
     """
 
@@ -110,6 +111,7 @@ class RequirementSpread:
     duty_low_at: str
     duty_high_at: str
     duty_yield: float | None
+    yield_: float
     n: int
     n_corners: int
 
@@ -225,5 +227,6 @@ def requirement_spread(design: Any, kw: dict[str, Any], *, n: int = 20_000, seed
         duty_kind=None if duty_req is None else duty_req[0],
         duty_required=None if duty_req is None else (duty_req[1], duty_req[2]),
         duty_low=float(d_lo), duty_high=float(d_hi), duty_low_at=d_lo_at, duty_high_at=d_hi_at,
-        duty_yield=float(d_ok.mean()) if duty_req is not None else None, n=int(n), n_corners=int(corners),
+        duty_yield=float(d_ok.mean()) if duty_req is not None else None, yield_=float((f_ok & d_ok).mean()),
+        n=int(n), n_corners=int(corners),
     )
