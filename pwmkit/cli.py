@@ -242,6 +242,7 @@ def _lab(args: argparse.Namespace) -> int:
 
     folder = Path(args.dir)
     actions = nbs.copy_notebooks(folder, force=args.force, source=args.source)
+    actions += nbs.copy_examples(folder, force=args.force)  # the design files the notebook reads
     for a in actions:
         note = {"copied": "copied", "unchanged": "up to date", "replaced": "replaced (--force)",
                 "kept": "kept your edited copy (--force replaces it)"}[a.action]
@@ -270,6 +271,10 @@ def _lab(args: argparse.Namespace) -> int:
     html_path = main_nb.with_suffix(".html")
     atomic_write(html_path, nbs.notebook_html(run.notebook), force=True)
     print(f"HTML copy of the executed notebook: {html_path.resolve()}  [{run.seconds:.1f} s]")
+    import nbformat  # the executed notebook, with its recorded results, for `pwmkit rerun`
+
+    atomic_write(main_nb, nbformat.writes(run.notebook), force=True)
+    print(f"executed notebook with its recorded results: {main_nb.resolve()} (check it with: pwmkit rerun {main_nb})")
     for design_name, results in payloads_in_notebook(run.notebook).items():
         print(f"\nkey results of {design_name!r}:")
         width = max((len(k) for k in results), default=0)
