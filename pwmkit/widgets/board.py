@@ -116,7 +116,7 @@ class Dashboard(w.VBox):
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
-        pages = own[:1] + pages + own[1:]
+        pages = pages + own
         self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
         self.tabs = w.Tab(children=[p for _t, p in pages])
         self.tabs.titles = tuple(t for t, _p in pages)
