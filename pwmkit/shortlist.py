@@ -77,7 +77,7 @@ class RankedSet:
         t = self.design.timing
         s = self.spread
         out: dict[str, Any] = {
-            "rank": self.rank, "topology": t.topology, "ra": t.ra, "rb": t.rb, "c": t.c, "pot": t.pot,
+            "rank": self.rank, "topology": t.topology, "vcc": self.design.vcc, "timer": t.timer, "ra": t.ra, "rb": t.rb, "c": t.c, "pot": t.pot,
             "wiper": t.wiper, "c_dielectric": t.c_dielectric, "r_series": t.r_series, "c_series": t.c_series,
             "frequency": self.candidate.frequency, "frequency_low": s.frequency_low,
             "frequency_high": s.frequency_high, "duty_low": s.duty_low, "duty_high": s.duty_high,
