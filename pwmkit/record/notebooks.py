@@ -143,21 +143,27 @@ def copy_examples(dest: str | os.PathLike[str], *, force: bool = False,
 
 
 def find_design_file(name: str, folder: str | os.PathLike[str] | None = None) -> Path:
-    """A design file beside the notebook (``folder``, default the working folder), else pwmkit's example.
+    """The design file ``name`` beside the notebook (``folder``, default the working folder).
+
+    When it is not there but pwmkit ships an example of that name, the example is first copied
+    beside the notebook (as ``pwmkit lab`` does), so that edits saved from the dashboard go to
+    the user's copy and never into pwmkit's own files.
 
     Raises
     ------
     DesignError
-        Neither exists.
+        Neither exists, or ``name`` is not a plain file name.
     """
+    if Path(name).name != name or not name.endswith(".toml"):
+        raise DesignError(f"{name!r}: give the plain file name of a .toml design file")
     here = Path.cwd() if folder is None else Path(folder)
-    candidates = [here / name]
+    path = here / name
+    if path.is_file():
+        return path
     examples = example_source_dir()
-    if examples is not None:
-        candidates.append(examples / name)
-    for path in candidates:
-        if path.is_file():
-            return path
+    if examples is not None and (examples / name).is_file():
+        atomic_write(path, (examples / name).read_bytes())
+        return path
     raise DesignError(f"{name}: no such design file in {here} or in pwmkit's examples; run `pwmkit lab`, which "
                       "copies the examples beside the notebooks")
 
