@@ -23,7 +23,6 @@ _DIS_WARN_FRACTION = 0.5  # warn above half the discharge-current limit (our jud
 _END_RESISTOR_MIN = 1e3  # Ω; keep RA >= 1 kΩ (common practice)
 _BIAS_WARN = 0.01  # 1 % shift of the charge headroom (common practice rule of thumb)
 _BIAS_FAIL = 0.10  # 10 % (our judgement: the timing is then set by the leakage, not the resistors)
-_DUTY_TARGET_WINDOW = 0.02  # ± duty points around requirements.duty when no window is given (our default)
 _FMAX_WARN_FRACTION = 0.5  # warn above half the family's practical maximum (our judgement)
 
 
@@ -51,7 +50,8 @@ def supply_oscillation(design: Any, ev: Any) -> Any:
 def tolerance_analysis(design: Any, ev: Any) -> Any:
     """The tolerance analysis ran and every sample oscillates.
 
-    Applies when the tolerance analysis was asked for and the supply corners oscillate. Fail when
+    Applies when the supply corners oscillate; listed as not run until the tolerance analysis runs
+    (quick mode). Fail when
     Monte Carlo samples or worst-case points do not oscillate (the design sits near the limits of
     REFERENCES §1.8); warn when part of the analysis could not run for another reason (e.g. an
     ambient outside the capacitor dielectric's rated range); ok otherwise. Origin:

@@ -43,7 +43,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
 
         dash = page.locator(DASH).first
         dash.scroll_into_view_if_needed()
-        expect(dash.locator(".pwmkit-file-mark")).to_contain_text("saved", timeout=30_000)
+        expect(dash.locator(".pwmkit-file-mark .pwmkit-saved")).to_be_visible(timeout=30_000)
         readout = dash.locator(".pwmkit-readout td[data-q='frequency'][data-kind='exact']")
         expect(readout).not_to_be_empty(timeout=30_000)
 
@@ -75,7 +75,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
 
         # 4 — save: the file on disk holds the requirements and the adopted set
         dash.locator(".pwmkit-file-save button, button.pwmkit-file-save").first.click()
-        expect(dash.locator(".pwmkit-file-mark")).to_contain_text("saved", timeout=20_000)
+        expect(dash.locator(".pwmkit-file-mark .pwmkit-saved")).to_be_visible(timeout=20_000)
         saved = load_design(design_file)
         assert saved.requirements.frequency == 25e3 and saved.requirements.frequency_tolerance == 0.35
         assert saved.timing != demo_designs()["fan"].timing
@@ -86,7 +86,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
         expect(readout).to_have_text(adopted, timeout=20_000)
         dash.locator(".lm-TabBar-tabLabel", has_text="Requirements").first.click()
         expect(dash.locator(".pwmkit-req-frequency input").first).to_have_value("25 kHz", timeout=20_000)
-        expect(dash.locator(".pwmkit-file-mark")).to_contain_text("saved", timeout=20_000)
+        expect(dash.locator(".pwmkit-file-mark .pwmkit-saved")).to_be_visible(timeout=20_000)
         page.screenshot(path=str(artifacts / "lab_own_design_final.png"), full_page=False)
     except Exception:
         page.screenshot(path=str(artifacts / "FAILED_lab_own_design.png"), full_page=False)
