@@ -137,12 +137,14 @@ def _check(args: argparse.Namespace) -> int:
             code = max(code, 1)
         if args.json:
             report.append({"file": str(name), "name": design.name, "fail_count": fs.fail_count,
-                           "warn_count": fs.warn_count, "ok_count": fs.ok_count, "worst": fs.worst,
+                           "warn_count": fs.warn_count, "ok_count": fs.ok_count, "not_run_count": fs.not_run_count,
+                           "worst": fs.worst,
                            "key_results": ev.key_results(), "findings": fs.as_rows()})
             continue
         t = ev.timing
         print(f"{name} — {design.name}: {design.timing.topology} topology, {format_value(float(t.frequency), 'Hz', 4)}, "
-              f"duty {100 * float(t.duty):.3g} %; {fs.fail_count} fail, {fs.warn_count} warn, {fs.ok_count} ok")
+              f"duty {100 * float(t.duty):.3g} %; {fs.fail_count} fail, {fs.warn_count} warn, {fs.ok_count} ok"
+              + (f", {fs.not_run_count} not run (--quick)" if fs.not_run_count else ""))
         shown = [f for f in fs if f.severity != "ok"] if args.brief else list(fs)
         if shown:
             print(findings_table(shown))
@@ -359,7 +361,8 @@ def build_parser() -> argparse.ArgumentParser:
                                    "only. With no display ($DISPLAY, $WAYLAND_DISPLAY and $BROWSER unset on Linux) "
                                    "or with --headless, run the notebook and write an HTML copy instead.")
     p.add_argument("--dir", default="pwmkit-notebooks", help="working folder (default ./pwmkit-notebooks)")
-    p.add_argument("--force", action="store_true", help="replace edited copies with the packaged notebooks")
+    p.add_argument("--force", action="store_true",
+                   help="replace edited copies with the packaged notebooks and example design files")
     mode = p.add_mutually_exclusive_group()
     mode.add_argument("--headless", dest="headless", action="store_true", default=None,
                       help="run the design notebook and write HTML, do not start JupyterLab")
