@@ -106,6 +106,10 @@ def design_from_options(args: argparse.Namespace, name: str = "design") -> Any:
     load = None
     kind = getattr(args, "load", None)
     if kind == "led":
+        from .loads.led import TYPICAL_VF
+
+        if args.colour not in TYPICAL_VF:
+            raise DesignError(f"--colour: {args.colour!r} is not a known LED colour; allowed: {', '.join(TYPICAL_VF)}")
         load = LedLoad(n_series=args.leds, n_parallel=args.strings, vf=parse_value(args.vf),
                        r_series=parse_value(args.led_resistor), colour=args.colour)
     elif kind == "motor":

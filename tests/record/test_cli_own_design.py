@@ -11,13 +11,17 @@ from __future__ import annotations
 import csv
 import io
 import json
+import math
 import shutil
 from pathlib import Path
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
-from pwmkit import eseries
+from pwmkit import DesignError, eseries
 from pwmkit.cli import main
+from pwmkit.cli_design import parse_range
 from pwmkit.record import load_design
 from pwmkit.timing import astable
 
@@ -68,6 +72,28 @@ def test_find_impossible_target_exits_1_with_the_nearest_miss(capsys: pytest.Cap
                  "--samples", "200"]) == 1
     err = capsys.readouterr().err
     assert "closest set" in err and "pot +20 %" in err
+
+
+def test_new_bad_load_options_exit_2_before_searching(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    base = ["new", "x", *FAN_ARGS, "--dir", str(tmp_path)]
+    assert main([*base, "--load", "led", "--colour", "purple"]) == 2
+    assert "--colour" in capsys.readouterr().err
+    assert main([*base]) == 2  # no load given
+    assert "--load" in capsys.readouterr().err
+    assert main(["new", "../x", *FAN_ARGS, "--load", "led"]) == 2
+    assert "NAME" in capsys.readouterr().err
+    assert not list(tmp_path.iterdir())
+
+
+@settings(max_examples=60, deadline=None)
+@given(text=st.text(max_size=24))
+def test_parse_range_gives_numbers_or_a_design_error(text: str) -> None:
+    try:
+        lo, hi = parse_range(text, "--duty", "%")
+    except DesignError as exc:
+        assert "--duty" in str(exc)
+    else:
+        assert math.isfinite(lo) and (hi is None or (math.isfinite(hi) and lo < hi))
 
 
 @pytest.mark.parametrize(("args", "match"), [
