@@ -1,8 +1,11 @@
 """The design dashboard: every panel on one shared design session, built by :func:`dashboard`.
 
-Layout: a header line (design, verdict of the checks), the cautions, the timing panel beside the
-waveforms, then tabs — pot travel, spread, load and output stage, flicker map, checks, formulas,
-schematic.
+Layout: the design-file bar (Open, Save, Save as, Revert, unsaved mark), a header line (design,
+verdict of the checks — the same checks the record shows, spread checks "not run" until the Monte
+Carlo runs), the cautions, the timing panel with the requirement band beside the waveforms, then
+tabs — pot travel, spread, load and output stage, flicker map, checks, formulas, schematic, and for
+your own design requirements, parts, candidates (the part search) and supply & ambient
+(:mod:`pwmkit.widgets.workbench`).
 
 Live-update policy
 ------------------

@@ -177,9 +177,8 @@ class CandidatesPanel(Panel):
             self._loop = None
         t0 = time.perf_counter()
 
-        def report(fraction: float, stage: str) -> None:
+        def report(fraction: float, _stage: str) -> None:
             self.progress.value = fraction  # a trait change: sent to the front end from this thread
-            self._stage = stage
 
         def work() -> None:
             try:
