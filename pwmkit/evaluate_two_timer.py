@@ -70,6 +70,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
         monte_carlo_two_timer,
         operating_point,
         pin_voltage,
+        requirement_spread_two_timer,
         worst_case_two_timer,
     )
 
@@ -139,7 +140,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                 el = heater.hot
                 p["mosfet"] = mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c,
                                             i_off=el.i_on)
-        spread_res = worst = spread_note = None
+        spread_res = worst = spread_note = req_spread = None
         stops = False
         if spread and corners.error is None:
             notes = []
@@ -161,6 +162,13 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
             except DesignError as exc:
                 notes.append(str(exc))
                 stops = True
+            req = design.requirements
+            if req.frequency is not None or req.duty_min is not None or req.duty_max is not None or req.duty is not None:
+                try:
+                    req_spread = requirement_spread_two_timer(design, n=int(n_mc), seed=int(seed),
+                                                              v_pin=v_pin if loop_mode else None)
+                except DesignError as exc:
+                    notes.append(f"requirement spread: {exc}")
             spread_note = "; ".join(notes) or None
         l_lo, l_hi = _load_supply_range(design)
         cond = Conditions(vcc=design.vcc, vcc_min=lo, vcc_max=hi, load_supply=design.load_supply, load_supply_min=l_lo,
@@ -172,7 +180,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
         ev = Evaluation(design=design, timing=timing, ideal=None, diode_law=None, pot_travel=None,
                         timer_output=_timer_output(design, gate), gate=gate, corners=corners, spread=spread_res,
                         worst_case=worst, sensitivity=None, conditions=cond, findings=Findings(()), cautions=(),
-                        two_timer=part, heater=heater, **p)
+                        two_timer=part, heater=heater, requirement_spread=req_spread, **p)
         ev = replace(ev, findings=run_checks(design, ev))
         ev = replace(ev, cautions=_cautions.cautions_for(design, ev))
     bad = [k for k, v in ev.key_results().items() if isinstance(v, float) and not math.isfinite(v)]

@@ -287,3 +287,131 @@ def operating_point(design: Any) -> tuple[float, float | None, Any]:
 def circuit_words(topology: str) -> str:
     """Short name of the circuit for headings: "pot astable", "two-timer PWM" …"""
     return "two-timer PWM (astable clock + monostable)" if topology == "two-timer" else f"{topology} astable"
+
+
+def requirement_spread_two_timer(design: Any, *, n: int = 20_000, seed: int = 1, v_pin: float | None = None) -> Any:
+    """The two-timer's spread judged against the requirements (:class:`pwmkit.requirement_spread.RequirementSpread`).
+
+    Frequency: every corner of the parts-and-supply box at the operating control voltage (worst
+    case) and the Monte Carlo share inside the window (timer errors included). Duty, as a *reach*
+    over the control range: the duty at ``vctl_min`` must get down to ``duty_min`` and the duty at
+    ``vctl_max`` up to ``duty_max`` — in every corner (worst case: the highest bottom end and the
+    lowest top end) or in the same build at both ends (yield).
+    """
+    from .parts.timers import get_timer
+    from .requirement_spread import RequirementSpread, corner_text
+
+    t, req = design.timing, design.requirements
+    lo, hi = design.supply_range
+    dims = [(k, a, b) for k, a, b in _box(design)] + ([("vcc", lo, hi)] if hi > lo else [])
+    corners = np.array(list(itertools.product((0, 1), repeat=len(dims))), dtype=float)
+    values = {k: getattr(t, k) * (1.0 + np.where(corners[:, j] > 0, b, a)) for j, (k, a, b) in enumerate(dims)
+              if k != "vcc"}
+    vcc = np.where(corners[:, -1] > 0, hi, lo) if hi > lo else np.full(len(corners), design.vcc)
+
+    def dev(i: int) -> dict[str, float]:
+        return {k: float(np.where(corners[i, j] > 0, b, a)) for j, (k, a, b) in enumerate(dims)}
+
+    f, _d, ok, reasons = _evaluate_points(design, values, vcc, t.vctl_nominal, v_pin)
+    if not np.all(ok):
+        raise DesignError(f"requirement spread: some corners do not work "
+                          f"({', '.join(f'{k}: {v}' for k, v in reasons.items())})")
+    _f, d_bottom, ok_b, _r = _evaluate_points(design, values, vcc, t.vctl_min)
+    _f, d_top, ok_t, _r = _evaluate_points(design, values, vcc, t.vctl_max)
+    duty_req = None
+    if req.duty_min is not None or req.duty_max is not None or req.duty is not None:
+        d_lo_req = req.duty_min if req.duty_min is not None else req.duty
+        d_hi_req = req.duty_max if req.duty_max is not None else req.duty
+        duty_req = (float(d_lo_req if d_lo_req is not None else d_hi_req),
+                    float(d_hi_req if d_hi_req is not None else d_lo_req))
+    if not (np.all(ok_b) and np.all(ok_t)):
+        d_lo_w, d_lo_at, d_hi_w, d_hi_at = 1.0, "a corner where the control range fails", 0.0, "the same"
+    else:
+        i_b, i_t = int(np.argmax(d_bottom)), int(np.argmin(d_top))
+        d_lo_w, d_lo_at = float(d_bottom[i_b]), corner_text(dev(i_b)) + f", control {t.vctl_min:g} V"
+        d_hi_w, d_hi_at = float(d_top[i_t]), corner_text(dev(i_t)) + f", control {t.vctl_max:g} V"
+    i_flo, i_fhi = int(np.argmin(f)), int(np.argmax(f))
+    # Monte Carlo: the same builds at the operating point and at both ends of the control range
+    rng = np.random.default_rng(seed)
+    box = _box(design)
+    mc = {k: getattr(t, k) * (1.0 + rng.uniform(a, b, int(n))) for k, a, b in box}
+    mv = rng.uniform(lo, hi, int(n)) if hi > lo else np.full(int(n), design.vcc)
+    fam = get_timer(t.timer)
+    temp = rng.uniform(design.t_ambient_min_c, design.t_ambient_max_c, int(n))
+
+    def band() -> np.ndarray:
+        u = rng.uniform(-1.0, 1.0, (3, int(n)))
+        return (fam.initial_accuracy * u[0] + fam.drift_ppm_per_k * 1e-6 * np.abs(temp - 25.0) * u[1]
+                + fam.supply_sensitivity_per_v * np.abs(mv - design.vcc) * u[2])
+
+    e_clock, e_pulse = band(), band()
+    fm, _dm, okm, _r = _evaluate_points(design, mc, mv, t.vctl_nominal, v_pin)
+    _f, dmb, okb, _r = _evaluate_points(design, mc, mv, t.vctl_min)
+    _f, dmt, okt, _r = _evaluate_points(design, mc, mv, t.vctl_max)
+    scale = (1.0 + e_pulse) * (1.0 + e_clock)
+    window = req.frequency_window
+    with np.errstate(invalid="ignore"):
+        fm = fm * (1.0 + e_clock)
+        f_ok = okm & ((fm >= window[0]) & (fm <= window[1]) if window is not None else True)
+        d_ok = okb & okt
+        if duty_req is not None:
+            d_ok &= (dmb * scale <= duty_req[0] + 1e-12) & (dmt * scale >= duty_req[1] - 1e-12)
+    return RequirementSpread(
+        criterion=req.criterion, min_yield=float(req.min_yield), frequency_window=window,
+        frequency_low=float(f[i_flo]), frequency_high=float(f[i_fhi]), frequency_low_at=corner_text(dev(i_flo)),
+        frequency_high_at=corner_text(dev(i_fhi)), frequency_yield=float(f_ok.mean()) if window is not None else None,
+        duty_kind=None if duty_req is None else "reach", duty_required=duty_req, duty_low=d_lo_w, duty_high=d_hi_w,
+        duty_low_at=d_lo_at, duty_high_at=d_hi_at, duty_yield=float(d_ok.mean()) if duty_req is not None else None,
+        yield_=float((f_ok & d_ok).mean()), n=int(n), n_corners=3 * len(corners),
+    )
+
+
+def condition_sweep_two_timer(design: Any, *, n: int = 41) -> Any:
+    """Frequency and duty of a two-timer design over its supply range and its ambient range.
+
+    As :func:`pwmkit.condition_sweep.condition_sweep` for the astables: parts nominal, the control
+    pin at the operating point (a fixed source, or scaled with the supply for a ratiometric divider);
+    the band is the timer family's supply sensitivity (supply sweep), and the capacitor dielectric's
+    temperature envelope on both timing capacitors with the family's drift (ambient sweep), on the
+    clock and on the pulse.
+    """
+    from .condition_sweep import ConditionCurve, ConditionSweep, _grid
+    from .evaluate import dielectric_of
+    from .parts.capacitors import get_dielectric
+    from .parts.timers import get_timer
+
+    if isinstance(n, bool) or not isinstance(n, int) or not 2 <= n <= 1001:
+        raise DesignError(f"n: {n!r} is not allowed; give a whole number 2 … 1001")
+    t = design.timing
+    fam = get_timer(t.timer)
+    v_pin, v_source, _loop = operating_point(design)
+    ratiometric = v_source is None
+    lo, hi = design.supply_range
+
+    def run(vcc: np.ndarray, k_c: np.ndarray, e_clock: np.ndarray, e_pulse: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        values = {"ra": np.full(vcc.shape, t.ra), "rb": np.full(vcc.shape, t.rb), "c": t.c * k_c,
+                  "r_mono": np.full(vcc.shape, t.r_mono), "c_mono": t.c_mono * k_c}
+        f, d, ok, reasons = _evaluate_points(design, values, vcc, v_source, v_pin if ratiometric else None)
+        if not ok.all():
+            raise DesignError(f"condition sweep: the two-timer PWM stops inside the range ({', '.join(reasons)})")
+        return f * (1 + e_clock), d * (1 + e_clock) * (1 + e_pulse)
+
+    v = _grid(lo, hi, n)
+    ones, zeros = np.ones(v.size), np.zeros(v.size)
+    k = fam.supply_sensitivity_per_v * np.abs(v - design.vcc)
+    runs = [run(v, ones, zeros, zeros), run(v, ones, -k, -k), run(v, ones, k, k), run(v, ones, -k, k),
+            run(v, ones, k, -k)]
+    fs, ds = np.array([r[0] for r in runs[1:]]), np.array([r[1] for r in runs[1:]])
+    supply = ConditionCurve("supply", "V", v, runs[0][0], fs.min(axis=0), fs.max(axis=0), runs[0][1], ds.min(axis=0),
+                            ds.max(axis=0))
+    temp = _grid(design.t_ambient_min_c, design.t_ambient_max_c, n)
+    env_lo, env_hi = get_dielectric(dielectric_of(design)).temperature_envelope(temp)
+    env_lo, env_hi = np.asarray(env_lo, dtype=float) * np.ones(temp.size), np.asarray(env_hi, dtype=float) * np.ones(temp.size)
+    vn = np.full(temp.size, design.vcc)
+    span = fam.drift_ppm_per_k * 1e-6 * np.abs(temp - 25.0)
+    mid = run(vn, 1 + 0.5 * (env_lo + env_hi), np.zeros(temp.size), np.zeros(temp.size))
+    band = [run(vn, 1 + env, s1 * span, s2 * span) for env in (env_lo, env_hi) for s1 in (-1, 1) for s2 in (-1, 1)]
+    fs, ds = np.array([r[0] for r in band]), np.array([r[1] for r in band])
+    ambient = ConditionCurve("ambient", "°C", temp, mid[0], fs.min(axis=0), fs.max(axis=0), mid[1], ds.min(axis=0),
+                             ds.max(axis=0))
+    return ConditionSweep(supply, ambient)

@@ -127,11 +127,17 @@ def mono_bias(design: Any, ev: Any) -> Any:
 
 
 def duty_range_two_timer(design: Any, ev: Any, title: str) -> Any:
-    """``duty.range`` for the two-timer topology: the control range must cover ``duty_min … duty_max``.
+    """``duty.range`` for the two-timer topology: the control range must reach ``duty_min … duty_max``.
 
-    Fail when the duty over the control range (or, without it, the nominal duty) misses the
-    required window. Origin: the design's own requirement.
+    Fail when the nominal duty over the control range (or, without one, the nominal duty) misses
+    the required range. Then the spread is judged by ``requirements.criterion`` as for the pot
+    topology's reach: ``worst-case`` — the duty at ``vctl_min`` must get down to ``duty_min`` and the
+    duty at ``vctl_max`` up to ``duty_max`` in every corner; ``yield`` — the Monte Carlo share of
+    builds that do both must reach ``min_yield``. Not run in quick mode. Origin: the design's own
+    requirement; criteria common practice.
     """
+    from .timing_rules import _not_run, _spread_verdict
+
     req = design.requirements
     tt = _part(ev)
     if tt is None or tt.control is None:
@@ -141,8 +147,22 @@ def duty_range_two_timer(design: Any, ev: Any, title: str) -> Any:
     want_lo = req.duty_min if req.duty_min is not None else (req.duty if req.duty is not None else lo)
     want_hi = req.duty_max if req.duty_max is not None else (req.duty if req.duty is not None else hi)
     short = max(lo - want_lo, want_hi - hi, 0.0)
-    sev = "fail" if short > 1e-9 else "ok"
-    return finding("duty.range", sev, title, 100 * short, 0.0, "points",
-                   f"The control range gives {pct(lo)} … {pct(hi)} duty; required {pct(want_lo)} … {pct(want_hi)}.",
-                   "Widen the control range, or re-pick r_mono and c_mono against the clock period (synthesis).",
-                   "common-practice")
+    window = f"{pct(want_lo)} … {pct(want_hi)}"
+    if short > 1e-9:
+        return finding("duty.range", "fail", title, 100 * short, 0.0, "points",
+                       f"The control range gives {pct(lo)} … {pct(hi)} duty; required {window}.",
+                       "Widen the control range, or re-pick r_mono and c_mono against the clock period (synthesis).",
+                       "common-practice")
+    nominal = f"The control range gives {pct(lo)} … {pct(hi)} duty at the nominal values (required {window})"
+    rs = getattr(ev, "requirement_spread", None)
+    if rs is None:
+        return _not_run(design, ev, "duty.range", title, nominal)
+    band = f"over the corners the range reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
+    bad = []
+    if rs.duty_low > want_lo + 1e-12:
+        bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
+    if rs.duty_high < want_hi - 1e-12:
+        bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
+    return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
+                           " and ".join(bad) or "every corner reaches it", rs.duty_yield,
+                           "Widen the control range beyond the required duty, or use tighter monostable parts.")
