@@ -59,6 +59,7 @@ _EXPORTS = {
     "ValueEntry": "entry",
     "TwoTimerPanel": "two_timer",
     "ControlHeaterPanel": "two_timer",
+    "TwoTimerCandidatesPanel": "two_timer",
     "RequirementsPanel": "requirements",
     "PartsPanel": "requirements",
     "CandidatesPanel": "candidates",

@@ -136,8 +136,11 @@ class Dashboard(w.VBox):
             pages.append(("Schematic", self.schematic))
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
         self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
-        if two_timer:  # the part search knows the astable networks; the two-timer's is synthesize_two_timer()
-            own = [(t, p) for t, p in own if p is not self.candidates]
+        if two_timer:  # the part search knows the astable networks; the two-timer has its own
+            from .two_timer import TwoTimerCandidatesPanel
+
+            self.candidates = TwoTimerCandidatesPanel(s)  # type: ignore[assignment]
+            own = [(t, self.candidates if t == "Candidates" else p) for t, p in own]
         pages = pages + own
         self.tabs = w.Tab(children=[p for _t, p in pages])
         self.tabs.titles = tuple(t for t, _p in pages)

@@ -17,7 +17,7 @@ from ._base import DASH, GENERIC_MESSAGE, Panel, esc, fmt, fmt_pct, log, num, sa
 from .entry import ValueEntry
 from .session import DesignSession, as_session
 
-__all__ = ["TwoTimerPanel", "ControlHeaterPanel", "two_timer_html", "heater_html"]
+__all__ = ["TwoTimerPanel", "ControlHeaterPanel", "TwoTimerCandidatesPanel", "two_timer_html", "heater_html"]
 
 
 def _table(title: str, rows: list[tuple[str, str]], css: str) -> str:
@@ -188,3 +188,82 @@ class ControlHeaterPanel(Panel):
         self.note.value = "".join(f"<div style='font-size:12px;color:#3d4652'>{esc(n)}</div>" for n in notes)
         self._show(ev)
         self.clear_message()
+
+
+class TwoTimerCandidatesPanel(Panel):
+    """Preferred-value part sets for a two-timer design (:func:`pwmkit.synthesis_two_timer.synthesize_two_timer`).
+
+    Targets come from the design: the requirement's frequency (default: the present clock
+    frequency) and duty range ``duty_min … duty_max`` (default: the present duty over the control
+    range) over the control range ``vctl_min … vctl_max`` at the supply. "Use this set" puts the
+    chosen parts into the design (validated like any edit).
+
+    Attributes
+    ----------
+    find, use : ipywidgets.Button; pick : ipywidgets.Dropdown; table : ipywidgets.HTML
+    result : TwoTimerSynthesis or None
+    """
+
+    title = "Two-timer part sets"
+    css_name = "two-timer-candidates"
+
+    def __init__(self, design: Design | DesignSession) -> None:
+        super().__init__()
+        self.session = as_session(design)
+        self.result: Any = None
+        self.find = w.Button(description="Find part sets", icon="search", button_style="primary")
+        self.pick = w.Dropdown(options=(), description="set", layout=w.Layout(width="140px"),
+                               style={"description_width": "30px"})
+        self.use = w.Button(description="Use this set", icon="check", disabled=True)
+        self.table = w.HTML("<i>not searched yet</i>")
+        self.table.add_class("pwmkit-two-timer-table")
+        self.find.on_click(lambda _b: self.search())
+        self.use.on_click(lambda _b: self.use_selected())
+        self.set_body([w.HBox([self.find, self.pick, self.use], layout=w.Layout(align_items="center")), self.table])
+
+    def targets(self) -> dict[str, float]:
+        """Synthesis targets taken from the design (see the class docstring)."""
+        d, ev = self.session.design, self.session.evaluation
+        req, t = d.requirements, d.timing
+        control = ev.two_timer.control if ev.two_timer is not None else None
+        lo = req.duty_min if req.duty_min is not None else (control.duty_low if control is not None else 0.2)
+        hi = req.duty_max if req.duty_max is not None else (control.duty_high if control is not None else 0.8)
+        return dict(frequency=float(req.frequency or ev.timing.frequency), duty_low=float(lo), duty_high=float(hi),
+                    vctl_low=float(t.vctl_min), vctl_high=float(t.vctl_max), vcc=float(d.vcc))
+
+    @safe_callback
+    def search(self) -> None:
+        from ..synthesis_two_timer import synthesize_two_timer
+
+        d = self.session.design
+        self.result = synthesize_two_timer(timer=d.timing.timer, r_series=d.timing.r_series,
+                                           c_series=d.timing.c_series, **self.targets())
+        rows = "".join(
+            f"<tr><td>{i + 1}</td><td>{esc(fmt(c.ra, 'Ω', 3))}</td><td>{esc(fmt(c.rb, 'Ω', 3))}</td>"
+            f"<td>{esc(fmt(c.c, 'F', 3))}</td><td>{esc(fmt(c.r_mono, 'Ω', 3))}</td><td>{esc(fmt(c.c_mono, 'F', 3))}</td>"
+            f"<td class='pwmkit-q'>{esc(fmt(c.frequency, 'Hz', 4))}</td>"
+            f"<td class='pwmkit-q'>{esc(fmt_pct(c.duty_low, 3))} … {esc(fmt_pct(c.duty_high, 3))}</td>"
+            f"<td class='pwmkit-q'>{num(100 * c.error, '.2g', ' %')}</td></tr>"
+            for i, c in enumerate(self.result.candidates))
+        self.table.value = ("<table style='font-size:12px;border-collapse:collapse'><tr><th>#</th><th>R_A</th>"
+                            "<th>R_B</th><th>C</th><th>R_M</th><th>C_M</th><th>frequency</th><th>duty range</th>"
+                            f"<th>worst error</th></tr>{rows}</table>")
+        self.pick.options = tuple(range(1, len(self.result.candidates) + 1))
+        self.use.disabled = not self.result.candidates
+        self.clear_message()
+
+    @safe_callback
+    def use_selected(self, rank: int | None = None) -> None:
+        if self.result is None:
+            self.show_message("search first (Find part sets)")
+            return
+        k = int(self.pick.value if rank is None else rank) - 1
+        fields = self.result.candidates[k].timing_fields(self.result.vctl_low, self.result.vctl_high)
+        verdict = self.session.edit(lambda d: d.with_timing(**fields))
+        if verdict is not None:
+            self.show_message(verdict)
+        else:
+            self.clear_message()
+
+    def refresh(self, evaluation: Any) -> None:
+        """Nothing follows the session live (the search runs on request)."""

@@ -47,3 +47,21 @@ def test_bad_input_stays_in_the_panel(designs):
 def test_loads_panel_shows_the_heater(mat_dash):
     mat_dash.show_tab("Load & switch")
     assert "Heater" in mat_dash.loads.load_html.value and "thermistor loop" in mat_dash.loads.load_html.value
+
+
+def test_two_timer_part_search_and_use(designs):
+    from pwmkit.widgets import TwoTimerCandidatesPanel
+
+    dash = Dashboard(designs["heat-mat"])
+    assert isinstance(dash.candidates, TwoTimerCandidatesPanel) and "Candidates" in dash.tabs.titles
+    panel = dash.candidates
+    targets = panel.targets()
+    assert targets["duty_low"] == designs["heat-mat"].requirements.duty_min
+    panel.search()
+    assert panel.message_text == "" and panel.table.value.count("<tr>") == len(panel.result.candidates) + 1
+    best = panel.result.best
+    panel.use_selected(1)
+    t = dash.session.design.timing
+    assert (t.ra, t.rb, t.c, t.r_mono, t.c_mono) == (best.ra, best.rb, best.c, best.r_mono, best.c_mono)
+    ctl = dash.session.evaluation.two_timer.control
+    assert ctl.duty_low == pytest.approx(best.duty_low) and ctl.frequency == pytest.approx(best.frequency)
