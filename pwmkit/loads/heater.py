@@ -47,7 +47,8 @@ from ..errors import DesignError
 from .thermal import result_html, result_repr
 
 __all__ = ["HeaterResult", "heater", "steady_rise", "warm_up_time", "ripple_pp", "ntc_resistance",
-           "thermistor_source", "ClosedLoop", "closed_loop", "WARMUP_FRACTION", "KELVIN"]
+           "thermistor_source", "ClosedLoop", "closed_loop", "StepResponse", "closed_loop_step", "WARMUP_FRACTION",
+           "KELVIN"]
 
 #: Fraction of the steady temperature rise that ends the warm-up [1] (90 %, common practice).
 WARMUP_FRACTION = 0.9
@@ -449,3 +450,117 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
         droop=1.0 / (1.0 + gain), crossover=fc, phase_margin_deg=pm, stable=pm > 0.0, tau_plant=tau_p,
         tau_sensor=tau_s, delay=delay, saturated=sat or d_ss <= d_lo or d_ss >= d_hi,
     )
+
+
+@dataclass(frozen=True)
+class StepResponse:
+    """Warm-up of a thermistor-controlled heater from ambient (averaged closed loop, time domain).
+
+    Attributes
+    ----------
+    t : time [s]
+    t_element_c, t_sensor_c : element and thermistor temperatures [°C]
+    duty : duty the modulator gives [1]
+    t_final_c : temperature at the end of the run [°C]
+    overshoot : largest excursion above the final temperature [K]
+    settling_time : last time the element is outside ±2 % of its final rise [s]
+    """
+
+    t: np.ndarray
+    t_element_c: np.ndarray
+    t_sensor_c: np.ndarray
+    duty: np.ndarray
+    t_final_c: float
+    overshoot: float
+    settling_time: float
+
+    def __repr__(self) -> str:
+        return (f"StepResponse(final {self.t_final_c:.4g} °C, overshoot {self.overshoot:.3g} K, settles in "
+                f"{self.settling_time:.4g} s)")
+
+
+def closed_loop_step(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r_th: Any, c_th: Any,
+                     v_supply: Any, duty_range: tuple[float, float], t_ambient_c: Any = 25.0, rds_on: Any = 0.0,
+                     t_ref_c: Any = 25.0, tau_sensor: Any = 30.0, vctl_range: tuple[float, float] | None = None,
+                     t_end: Any = None, steps: int = 1000) -> StepResponse:
+    """Warm-up of the thermistor loop from ambient: the averaged energy balance of the element and
+    the thermistor's first-order lag, integrated with the classical fourth-order Runge-Kutta method.
+
+    .. math::
+        C_θ \\dot T_e = D(V_{ctl}(T_s))\\,\\frac{V_{el}^2}{R(T_e)} - \\frac{T_e - T_a}{R_θ},\\qquad
+        τ_s \\dot T_s = T_e - T_s
+
+    Parameters
+    ----------
+    duty_of_vctl, vctl_of_t, duty_range, vctl_range : the modulator and the divider, as :func:`closed_loop`
+    r_cold, alpha, r_th, c_th, v_supply, t_ambient_c, rds_on, t_ref_c, tau_sensor : as :func:`closed_loop`
+    t_end : length of the run [s] (default 8·R_θ·C_θ)
+    steps : Runge-Kutta steps (100 … 200000)
+
+    Returns
+    -------
+    StepResponse
+
+    Notes
+    -----
+    The PWM period is taken as short against the thermal time constants (averaged model); the
+    switch resistance divides the supply as in :func:`heater`.
+
+    References
+    ----------
+    .. [1] E. Hairer, S. P. Nørsett, G. Wanner, *Solving Ordinary Differential Equations I*, 2nd ed.,
+       Springer 1993, §II.1 (the classical Runge-Kutta method) (from memory).
+    """
+    q = _heater_inputs(r_cold, alpha, r_th, c_th, v_supply, 0.0, 1.0, t_ambient_c, rds_on, t_ref_c)
+    tau_s = float(quantity(tau_sensor, "tau_sensor", unit="s", minimum=0.0))
+    if isinstance(steps, bool) or not isinstance(steps, int) or not 100 <= steps <= 200_000:
+        raise DesignError(f"steps: {steps!r} is not allowed; give a whole number 100 … 200000")
+    r0, al, rth, cth, v = (float(q[k]) for k in ("r0", "alpha", "r_th", "c_th", "v"))
+    ta, t0, rds = float(q["ta"]), float(q["t0"]), float(q["rds"])
+    end = 8.0 * rth * cth if t_end is None else float(quantity(t_end, "t_end", unit="s", minimum=0.0,
+                                                                 min_inclusive=False))
+    d_lo, d_hi = (float(x) for x in duty_range)
+    v_lo, v_hi = vctl_range if vctl_range is not None else (-math.inf, math.inf)
+
+    def duty(ts: float) -> float:
+        vc = float(vctl_of_t(ts))
+        if vc <= v_lo:
+            return d_lo
+        if vc >= v_hi:
+            return d_hi
+        return min(max(float(duty_of_vctl(vc)), d_lo), d_hi)
+
+    def rhs(te: float, ts: float) -> tuple[float, float]:
+        r = r0 * (1.0 + al * (te - t0))
+        if r <= 0:
+            raise DesignError("alpha: the element resistance reaches zero during the warm-up; check alpha")
+        v_el = v * r / (r + rds)
+        d = duty(ts)
+        dte = (d * v_el**2 / r - (te - ta) / rth) / cth
+        dts = (te - ts) / tau_s if tau_s > 0 else dte
+        return dte, dts
+
+    h = end / steps
+    te, ts = ta, ta
+    t_arr, te_arr, ts_arr, d_arr = [0.0], [te], [ts], [duty(ts)]
+    for k in range(steps):
+        k1 = rhs(te, ts)
+        k2 = rhs(te + 0.5 * h * k1[0], ts + 0.5 * h * k1[1])
+        k3 = rhs(te + 0.5 * h * k2[0], ts + 0.5 * h * k2[1])
+        k4 = rhs(te + h * k3[0], ts + h * k3[1])
+        te += h / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0])
+        ts += h / 6.0 * (k1[1] + 2 * k2[1] + 2 * k3[1] + k4[1])
+        if tau_s == 0:
+            ts = te
+        t_arr.append((k + 1) * h)
+        te_arr.append(te)
+        ts_arr.append(ts)
+        d_arr.append(duty(ts))
+    te_a = np.array(te_arr)
+    final = float(te_a[-1])
+    rise = final - ta
+    outside = np.nonzero(np.abs(te_a - final) > 0.02 * abs(rise))[0] if rise != 0 else np.array([], dtype=int)
+    settle = float(t_arr[int(outside[-1]) + 1]) if outside.size and outside[-1] + 1 < len(t_arr) else (
+        0.0 if not outside.size else math.inf)
+    return StepResponse(t=np.array(t_arr), t_element_c=te_a, t_sensor_c=np.array(ts_arr), duty=np.array(d_arr),
+                        t_final_c=final, overshoot=max(0.0, float(te_a.max()) - final), settling_time=settle)

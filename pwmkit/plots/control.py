@@ -8,7 +8,7 @@ import numpy as np
 
 from .style import TRACE, new_figure, style_legend
 
-__all__ = ["ControlPlot", "HeaterPlot"]
+__all__ = ["ControlPlot", "HeaterPlot", "StepPlot"]
 
 
 class ControlPlot:
@@ -83,3 +83,34 @@ class HeaterPlot:
         self.source.data = {"duty": d, "t_element_c": np.asarray(sw.t_element_c, dtype=float),
                             "limit": np.full(d.shape, float(limit_c))}
         self.marker.data = {"duty": [100.0 * float(el.duty)], "t_element_c": [float(el.t_element_c)]}
+
+
+class StepPlot:
+    """Warm-up of the thermistor loop from ambient: element and thermistor temperature over time.
+
+    Attributes
+    ----------
+    layout : bokeh figure
+    source : ColumnDataSource "pwmkit-heater-step" (t in minutes, t_element_c, t_sensor_c)
+    """
+
+    def __init__(self, *, width: int = 430, height: int = 240) -> None:
+        from bokeh.models import ColumnDataSource
+
+        self.source = ColumnDataSource(data={"t": [], "t_element_c": [], "t_sensor_c": []}, name="pwmkit-heater-step")
+        fig = new_figure(title="warm-up with the thermostat", width=width, height=height, x_label="time [min]",
+                         y_label="temperature [°C]")
+        fig.line("t", "t_element_c", source=self.source, color=TRACE["exact"], line_width=2.2, legend_label="element")
+        fig.line("t", "t_sensor_c", source=self.source, color=TRACE["ideal"], line_width=1.8, line_dash="dashed",
+                 legend_label="thermistor")
+        style_legend(fig, "bottom_right")
+        self.figure = fig
+        self.layout = fig
+
+    def update(self, step: Any) -> None:
+        """Show a :class:`pwmkit.loads.heater.StepResponse`."""
+        self.source.data = {"t": np.asarray(step.t, dtype=float) / 60.0,
+                            "t_element_c": np.asarray(step.t_element_c, dtype=float),
+                            "t_sensor_c": np.asarray(step.t_sensor_c, dtype=float)}
+        self.figure.title.text = (f"warm-up with the thermostat — settles at {step.t_final_c:.3g} °C in "
+                                  f"{step.settling_time / 60:.3g} min, overshoot {step.overshoot:.2g} K")

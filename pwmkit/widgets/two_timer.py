@@ -151,21 +151,46 @@ class ControlHeaterPanel(Panel):
 
     def __init__(self, design: Design | DesignSession) -> None:
         super().__init__()
-        from ..plots.control import ControlPlot, HeaterPlot
+        from ..plots.control import ControlPlot, HeaterPlot, StepPlot
         from .views import _bokeh
 
         self.session = as_session(design)
         self.control_plot = ControlPlot()
         self.heater_plot = HeaterPlot()
+        self.step_plot = StepPlot()
+        self.step: Any = None
         self.note = w.HTML()
         self.refresh(self.session.evaluation)  # first data before the widgets are made
         self.control_box = w.VBox([_bokeh(self.control_plot.layout, "pwmkit-plot-control")])
         self.heater_box = w.VBox([_bokeh(self.heater_plot.layout, "pwmkit-plot-heater")])
-        self.set_body([w.HBox([self.control_box, self.heater_box], layout=w.Layout(flex_flow="row wrap")), self.note])
+        self.simulate = w.Button(description="Simulate warm-up", icon="play")
+        self.simulate.add_class("pwmkit-simulate")
+        self.simulate.on_click(lambda _b: self.run_step())
+        self.step_box = w.VBox([self.simulate, _bokeh(self.step_plot.layout, "pwmkit-plot-step")])
+        self.set_body([w.HBox([self.control_box, self.heater_box, self.step_box], layout=w.Layout(flex_flow="row wrap")),
+                       self.note])
         self._show(self.session.evaluation)
         self.session.subscribe(self.follow)
 
+    @safe_callback
+    def run_step(self) -> None:
+        """Simulate the thermistor loop's warm-up from ambient (:func:`pwmkit.loads.heater.closed_loop_step`)."""
+        from ..evaluate_heater import heater_kwargs, loop_chain
+        from ..loads.heater import closed_loop_step
+
+        d, ev = self.session.design, self.session.evaluation
+        d_of_v, v_of_t, d_range, v_range = loop_chain(d)
+        rds = 0.0 if ev.gate is None else float(ev.gate.rds_on_25)
+        self.step = closed_loop_step(d_of_v, v_of_t, duty_range=d_range, vctl_range=v_range,
+                                     tau_sensor=d.load.tau_sensor, t_ambient_c=d.t_ambient_c, **heater_kwargs(d, rds))
+        self.step_plot.update(self.step)
+        self.clear_message()
+
     def _show(self, ev: Any) -> None:
+        if hasattr(self, "step_box"):
+            d = self.session.design
+            loop = d.load is not None and d.load.kind == "heater" and d.load.has_loop and ev.two_timer is not None
+            self.step_box.layout.display = None if loop else "none"
         if hasattr(self, "control_box"):
             ok_c = ev.two_timer is not None and ev.two_timer.control is not None
             self.control_box.layout.display = None if ok_c else "none"

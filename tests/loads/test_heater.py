@@ -222,3 +222,26 @@ def test_warm_up_closed_form_against_sympy_integral():
             sp.nsimplify(k) - sp.nsimplify(beta) * y - sp.nsimplify(alpha) * y**2)
         ref = sp.Integral(integrand, (y, 0, sp.Float(0.9 * y1, 30))).evalf(25)
         assert warm_up_time(tau, k, alpha, beta) == pytest.approx(float(ref), rel=1e-10)
+
+
+def test_closed_loop_step_against_solve_ivp_and_the_steady_state():
+    """The loop's warm-up (fourth-order Runge-Kutta in the model) against scipy's DOP853 on the same
+    equations, and its end point against closed_loop()'s steady temperature."""
+    from pwmkit.loads.heater import closed_loop_step
+
+    def v_of_t(t):
+        return min(max(0.5 - 0.05 * (t - 30.0), 0.0), 1.0)
+
+    kw = dict(r_cold=8.0, alpha=0.0039, r_th=2.5, c_th=800.0, v_supply=12.0, duty_range=(0.0, 1.0),
+              t_ambient_c=15.0, tau_sensor=60.0)
+    step = closed_loop_step(lambda v: v, v_of_t, **kw)
+
+    def rhs(_t, y):
+        r = 8.0 * (1 + 0.0039 * (y[0] - 25.0))
+        return [(v_of_t(y[1]) * 144.0 / r - (y[0] - 15.0) / 2.5) / 800.0, (y[0] - y[1]) / 60.0]
+
+    sol = solve_ivp(rhs, (0, step.t[-1]), [15.0, 15.0], t_eval=step.t[::50], rtol=1e-10, atol=1e-10, method="DOP853")
+    assert step.t_element_c[::50] == pytest.approx(sol.y[0], abs=2e-3)
+    loop = closed_loop(lambda v: v, v_of_t, frequency=1e3, **{k: v for k, v in kw.items()})
+    assert step.t_final_c == pytest.approx(loop.t_element_c, abs=0.05)
+    assert 0 < step.settling_time < step.t[-1] and step.overshoot >= 0

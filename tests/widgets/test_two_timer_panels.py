@@ -65,3 +65,14 @@ def test_two_timer_part_search_and_use(designs):
     assert (t.ra, t.rb, t.c, t.r_mono, t.c_mono) == (best.ra, best.rb, best.c, best.r_mono, best.c_mono)
     ctl = dash.session.evaluation.two_timer.control
     assert ctl.duty_low == pytest.approx(best.duty_low) and ctl.frequency == pytest.approx(best.frequency)
+
+
+def test_warm_up_simulation_in_the_panel(designs):
+    panel = ControlHeaterPanel(designs["heat-mat"])
+    panel.run_step()
+    assert panel.message_text == "" and panel.step is not None
+    data = panel.step_plot.source.data
+    assert np.allclose(data["t_element_c"], panel.step.t_element_c) and len(data["t"]) == len(panel.step.t)
+    loop = panel.session.evaluation.heater.loop
+    assert panel.step.t_final_c == pytest.approx(loop.t_element_c, abs=0.05)
+    assert panel.step.t_element_c[0] == designs["heat-mat"].t_ambient_c  # from ambient
