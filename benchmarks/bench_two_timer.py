@@ -52,6 +52,15 @@ def main(n: int = 100_000) -> None:
           f"{t_quick / TARGET_QUICK:.2f})")
     t_full = timed(lambda: evaluate(mat, n_mc=20_000), repeats=3)
     print(f"evaluate(heat-mat) with 20 000 Monte Carlo samples and the worst case: {1e3 * t_full:.0f} ms")
+    from pwmkit.evaluate_heater import heater_kwargs, loop_chain
+    from pwmkit.loads.heater import closed_loop, closed_loop_step
+
+    d_of_v, v_of_t, d_range, v_range = loop_chain(mat)
+    common = dict(duty_range=d_range, vctl_range=v_range, tau_sensor=60.0, t_ambient_c=15.0, **heater_kwargs(mat))
+    t_loop = timed(lambda: closed_loop(d_of_v, v_of_t, frequency=240.0, **common))
+    t_step = timed(lambda: closed_loop_step(d_of_v, v_of_t, **common), repeats=3)
+    print(f"closed_loop (steady state + phase margin): {1e3 * t_loop:.2f} ms; closed_loop_step (1000 RK4 steps): "
+          f"{1e3 * t_step:.0f} ms; ratio {t_step / t_loop:.0f}×")
     t_syn = timed(lambda: synthesize_two_timer(frequency=240, duty_low=0.22, duty_high=0.45, vctl_low=4.0,
                                                vctl_high=7.0, vcc=12.0), repeats=3)
     print(f"synthesize_two_timer (E24/E12): {1e3 * t_syn:.0f} ms")
