@@ -252,6 +252,11 @@ def ntc_resistance(t_c: Any, r25: Any, beta: Any) -> Any:
     --------
     >>> round(ntc_resistance(25.0, 10e3, 3950.0), 6)
     10000.0
+
+    References
+    ----------
+    .. [1] NTC thermistor makers' data sheets, β (B-value) model between 25 °C and a second
+       temperature (common practice).
     """
     t = np.asarray(quantity(t_c, "t_c", unit="°C", minimum=-100.0, maximum=300.0)) + KELVIN
     r25 = quantity(r25, "ntc_r25", unit="Ω", minimum=0.0, min_inclusive=False)
@@ -402,6 +407,12 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
     Returns
     -------
     ClosedLoop
+
+    References
+    ----------
+    .. [1] K. Ogata, *Modern Control Engineering*, 5th ed., §7-6 (phase margin) (from memory).
+    .. [2] G. F. Franklin, J. D. Powell, M. L. Workman, *Digital Control of Dynamic Systems*, 3rd ed.:
+       a sample and hold acts like half a sample period of delay (common practice; from memory).
     """
     q = _heater_inputs(r_cold, alpha, r_th, c_th, v_supply, 0.0, frequency, t_ambient_c, rds_on, t_ref_c)
     tau_s = float(quantity(tau_sensor, "tau_sensor", unit="s", minimum=0.0))

@@ -317,6 +317,12 @@ def control_pin_sweep(topology: str, vctl: Any, **astable_kwargs: Any) -> Contro
     >>> s = control_pin_sweep("classic", [6.0, 8.0], ra=10e3, rb=10e3, c=100e-9, vcc=12.0, vsat=0.0)
     >>> [round(float(f), 2) for f in s.frequency]
     [664.86, 480.9]
+
+    References
+    ----------
+    .. [1] Data sheets of the bipolar and CMOS 555-type timer families: the control-voltage pin
+       sets the upper threshold, the lower one is half of it (typical published datasheet value,
+       generic).
     """
     from .astable import astable
 

@@ -163,6 +163,13 @@ def two_timer_pwm(*, ra: Any, rb: Any, c: Any, r_mono: Any, c_mono: Any, vcc: An
     >>> p = two_timer_pwm(ra=20e3, rb=1e3, c=100e-9, r_mono=10e3, c_mono=100e-9, vcc=12.0, vctl=6.0, vsat=0.0)
     >>> round(p.frequency, 2), round(p.duty, 4)
     (655.22, 0.4542)
+
+    References
+    ----------
+    .. [1] C. K. Alexander, M. N. O. Sadiku, *Fundamentals of Electric Circuits*, 6th ed., ch. 7.
+    .. [2] Data sheets of the bipolar and CMOS 555-type timer families: monostable operation, the
+       trigger held low keeps the output high, and the pulse-width-modulation application
+       (typical published datasheet values, generic; common practice).
     """
     q = _inputs(ra, rb, c, r_mono, c_mono, vcc, vctl, timer, clock_timer, vsat)
     return _two_timer_core(q)
@@ -312,6 +319,11 @@ def control_range(*, vctl_low: Any, vctl_high: Any, points: int = _LINEARITY_POI
     ...                   vcc=12.0, vsat=0.0)
     >>> round(r.duty_low, 4), round(r.duty_high, 4), round(r.linearity_error, 3)
     (0.1195, 0.7198, 0.068)
+
+    References
+    ----------
+    .. [1] Endpoint (terminal-based) linearity as quoted for sensors and converters: the largest
+       deviation from the straight line through the two end points (common practice).
     """
     lo = float(quantity(vctl_low, "vctl_low", unit="V", minimum=0.0, min_inclusive=False))
     hi = float(quantity(vctl_high, "vctl_high", unit="V", minimum=0.0, min_inclusive=False))
