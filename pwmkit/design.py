@@ -310,6 +310,8 @@ class Design:
     t_ambient_c : nominal ambient [°C]; t_ambient_min_c, t_ambient_max_c : range [°C]
     requirements : Requirements
     notes : free text for the design record
+    bench : bench readings of the built driver, tuple of :class:`pwmkit.bench.BenchReading`
+        (``[[bench]]`` in the design file; compared with the design by :func:`pwmkit.bench.reconcile`)
     """
 
     name: str = "design"
@@ -326,6 +328,7 @@ class Design:
     t_ambient_max_c: Any = 40.0
     requirements: Requirements = field(default_factory=Requirements)
     notes: str = ""
+    bench: tuple[Any, ...] = ()
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip() or len(self.name) > 200:
@@ -351,6 +354,29 @@ class Design:
             raise DesignError(f"design.load: expected LedLoad, MotorLoad or None, got {type(self.load).__name__}")
         if not isinstance(self.notes, str):
             raise DesignError("design.notes: expected text")
+        self._check_bench()
+
+    def _check_bench(self) -> None:
+        """Readings must be BenchReading objects; a wiper condition needs the pot topology."""
+        if not self.bench:
+            object.__setattr__(self, "bench", ())
+            return
+        from .bench.readings import BenchReading
+
+        if not isinstance(self.bench, (tuple, list)):
+            raise DesignError(f"bench: expected a sequence of BenchReading, got {type(self.bench).__name__}")
+        object.__setattr__(self, "bench", tuple(self.bench))
+        for i, reading in enumerate(self.bench):
+            if not isinstance(reading, BenchReading):
+                raise DesignError(f"bench[{i}]: expected a BenchReading, got {type(reading).__name__}")
+            reading.check(i)
+            if reading.conditions.wiper is not None and self.timing.topology != "pot":
+                raise DesignError(f"bench[{i}].conditions.wiper: {reading.conditions.wiper:g} given, but the "
+                                  f"{self.timing.topology!r} topology has no potentiometer; remove the wiper")
+
+    def with_reading(self, reading: Any) -> Design:
+        """A copy with one more bench reading (a :class:`pwmkit.bench.BenchReading`) at the end."""
+        return dataclasses.replace(self, bench=(*self.bench, reading))
 
     # -- convenience -------------------------------------------------------------------------
     @property
