@@ -9,7 +9,7 @@
 - :func:`reconcile` — is a reading inside the predicted spread at its conditions, and which part
   most likely differs (a maximum a-posteriori fit with the parts' tolerances as priors);
   :func:`reconcile_design` — the same for the readings a design holds
-  (:mod:`pwmkit.bench.reconcile`).
+  (:mod:`pwmkit.bench.reconciliation`).
 
 Nothing here imports widgets or plotting libraries; scipy is imported only by :func:`reconcile`.
 """
@@ -28,11 +28,11 @@ _EXPORTS = {
     "read_capture": "capture",
     "capture_timing": "capture",
     "reading_from_capture": "capture",
-    "Reconciliation": "reconcile",
-    "ReadingVerdict": "reconcile",
-    "Explanation": "reconcile",
-    "reconcile": "reconcile",
-    "reconcile_design": "reconcile",
+    "Reconciliation": "reconciliation",
+    "ReadingVerdict": "reconciliation",
+    "Explanation": "reconciliation",
+    "reconcile": "reconciliation",
+    "reconcile_design": "reconciliation",
 }
 
 __all__ = sorted(_EXPORTS)

@@ -50,6 +50,7 @@ _UNITS: Mapping[str, tuple[str, float]] = {
 _COMMENT = ("#", "//", "%", "!")
 _TIME_NAMES = ("time", "t", "x-axis", "x", "second", "seconds", "s")
 _CELL_UNIT = re.compile(r"^(?P<name>.*?)\s*[\(\[]\s*(?P<unit>[^\)\]]*?)\s*[\)\]]\s*$")
+_DATA_START = re.compile(r"^\s*\"?[-+]?(\d|\.\d)")
 _SLASH_UNIT = re.compile(r"^(?P<name>[^/]*?)\s*/\s*(?P<unit>[A-Za-zµμ]+)\s*$")
 
 
@@ -128,8 +129,6 @@ def _name_and_unit(cell: str) -> tuple[str, tuple[str, float] | None]:
 
 def _split(line: str, sep: str | None) -> list[str]:
     cells = line.split(sep) if sep is not None else line.split()
-    while cells and not cells[-1].strip():  # trailing separator
-        cells.pop()
     return [c.strip() for c in cells]
 
 
@@ -155,10 +154,12 @@ def _number(cell: str, decimal_comma: bool) -> float:
 
 def _choose_separator(lines: list[str]) -> tuple[str | None, bool]:
     """(separator, decimal comma) from the last lines of the file (the data rows)."""
-    tail = lines[-20:]
+    numeric = [ln for ln in lines[-200:] if _DATA_START.match(ln)]
+    tail = (numeric or lines)[-20:]
     for sep in (";", "\t", ","):
-        counts = {ln.rstrip().rstrip(sep).count(sep) for ln in tail}
-        if len(counts) == 1 and counts.pop() >= 1:
+        counts = [ln.count(sep) for ln in tail]
+        last = counts[-1]
+        if last >= 1 and sum(c == last for c in counts) >= 0.8 * len(counts):
             decimal_comma = sep != "," and any("," in ln for ln in tail)
             return sep, decimal_comma
     return None, any("," in ln for ln in tail)  # blanks; a comma then can only be a decimal comma
@@ -213,6 +214,8 @@ def read_capture(path: str | os.PathLike[str]) -> Capture:
     if first is None:
         raise DesignError(f"{p}: no numeric data rows with two or more columns (time and at least one channel); "
                           f"separator taken as {sep or 'blanks'!r}")
+    if all(len(cells) > 2 and cells[-1] == "" for _n, cells in rows[first:]):  # a separator ends every row
+        rows = [(n, cells[:-1] if cells and cells[-1] == "" else cells) for n, cells in rows]
     width = len(rows[first][1])
     pre = rows[:first]
     names: list[str] = [""] * width
@@ -330,7 +333,7 @@ def _arrays(t: Any, v: Any) -> tuple[np.ndarray, np.ndarray]:
             i = int(np.argmax(bad))
             count = int(bad.sum())
             at = f" (t = {tt[i]:.6g} s)" if name == "v" and math.isfinite(tt[i]) else ""
-            raise DesignError(f"{name}: sample {i}{at} is {arr[i]!r} ({count} non-finite sample(s) in all); a capture "
+            raise DesignError(f"{name}: sample {i}{at} is {float(arr[i])!r} ({count} non-finite sample(s) in all); a capture "
                               f"must hold finite numbers in {unit} — an over-range or missing sample? Trim or "
                               "re-capture")
     step = np.diff(tt)
@@ -394,9 +397,11 @@ def capture_timing(t: Any, v: Any, *, threshold: Any = None) -> CaptureTiming:
     ------
     DesignError
         Fewer than 16 samples, NaN or infinite samples, time that does not rise strictly, a flat
-        trace, a clipped trace (a pile-up of samples at exactly the highest or lowest value —
-        the signal left the scope's vertical range), a threshold outside the levels, or fewer than
-        two whole periods.
+        trace, a clipped trace, a threshold outside the levels, or fewer than two whole periods.
+        Clipped means: at one level, samples pile up at exactly the capture's extreme value (more
+        than three times as many as at the next value, and at least 0.2 % of the samples) while
+        the other level shows noise — the signal left the scope's vertical range. A trace flat at
+        *both* levels is taken as noise-free (simulated) data, not as clipped.
 
     Notes
     -----
@@ -432,13 +437,14 @@ def capture_timing(t: Any, v: Any, *, threshold: Any = None) -> CaptureTiming:
     v_low = float(np.median(vv[vv < mid0]))
     v_high = float(np.median(vv[vv >= mid0]))
     amp = v_high - v_low
-    for top in (True, False):
-        clipped, level, count = _clipped(vv, top)
-        if clipped:
-            side = "highest" if top else "lowest"
-            raise DesignError(f"v: the trace is clipped: {count} samples sit at exactly the {side} value {level:.6g} V "
-                              "(a flat top where the signal left the scope's vertical range); re-capture with "
-                              "more volts per division or a lower offset")
+    piles = [_clipped(vv, top) for top in (True, False)]
+    if piles[0][0] != piles[1][0]:   # one level piles up at the extreme while the other shows noise
+        top = piles[0][0]
+        _c, level, count = piles[0] if top else piles[1]
+        side = "highest" if top else "lowest"
+        raise DesignError(f"v: the trace is clipped: {count} samples sit at exactly the {side} value {level:.6g} V "
+                          f"(a flat {'top' if top else 'bottom'} where the signal left the scope's vertical range); "
+                          "re-capture with more volts per division or another offset")
     if threshold is None:
         th = 0.5 * (v_low + v_high)
     else:
