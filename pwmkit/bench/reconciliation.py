@@ -297,7 +297,8 @@ def _q(value: Any, name: str, unit: str, lo: float, hi: float, *, min_inclusive:
 
     if value is None:
         return None
-    return float(quantity(value, name, unit=unit, minimum=lo, maximum=hi, min_inclusive=min_inclusive))
+    return float(quantity(value, name, unit="" if unit == "1" else unit, minimum=lo, maximum=hi,
+                          min_inclusive=min_inclusive))
 
 
 def _check_design(design: Any) -> None:
