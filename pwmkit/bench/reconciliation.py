@@ -502,7 +502,8 @@ def _suggest(design: Any, key: str, value: float, within: bool) -> str:
     from .. import eseries
     from ..values import format_value
 
-    series = design.timing.c_series if key == "c" else design.timing.r_series
+    # potentiometers come in the coarse E6 steps (common practice)
+    series = design.timing.c_series if key == "c" else "E6" if key == "pot" else design.timing.r_series
     unit = "F" if key == "c" else "Ω"
     near = float(eseries.nearest(value, series))
     return f"is a {format_value(near, unit, 3)} part ({series}) fitted? measure it out of circuit"
@@ -655,13 +656,33 @@ def reconcile(design: Any, frequency: Any = None, duty: Any = None, *, wiper: An
     return _run(design, obs, n, seed)
 
 
+_CACHE: dict[Any, Reconciliation | None] = {}
+_CACHE_SIZE = 16
+
+
 def reconcile_design(design: Any, *, n: int = 20_000, seed: int = 1) -> Reconciliation | None:
     """:func:`reconcile` of the frequency and duty readings a design holds (``design.bench``).
 
     Readings without frequency and duty are skipped; the stated accuracy of each reading is used
     (the defaults where none is stated). Returns None when no reading has frequency or duty.
+    The last few results are kept (designs are immutable), so the check, the report and the
+    dashboard of one design share one fit.
     """
     _check_design(design)
+    key = (design, n, seed)
+    try:
+        if key in _CACHE:
+            return _CACHE[key]
+    except TypeError:  # pragma: no cover - every design field is hashable
+        return _reconcile_design(design, n, seed)
+    result = _reconcile_design(design, n, seed)
+    if len(_CACHE) >= _CACHE_SIZE:
+        _CACHE.pop(next(iter(_CACHE)))
+    _CACHE[key] = result
+    return result
+
+
+def _reconcile_design(design: Any, n: int, seed: int) -> Reconciliation | None:
     obs = []
     for r in design.bench:
         f, d = r.get("frequency"), r.get("duty")
