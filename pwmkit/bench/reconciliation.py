@@ -87,6 +87,7 @@ class ReadingVerdict:
     Attributes
     ----------
     index : position among the readings reconciled
+    label : which reading (``bench[i]`` and its date for a design's readings)
     frequency, duty : measured values (None if not measured) [Hz], [1]
     u_frequency, u_duty : their uncertainties [Hz], [1]
     wiper, vcc, t_ambient_c : conditions used (vcc/ambient None = the design's range) [1], [V], [°C]
@@ -99,6 +100,7 @@ class ReadingVerdict:
     """
 
     index: int
+    label: str
     frequency: float | None
     duty: float | None
     u_frequency: float
@@ -190,6 +192,7 @@ class Reconciliation:
     chi2 : sum of squared normalised measurement residuals at the MAP [1]
     n_measured : measured values fitted
     n, seed : Monte Carlo samples per reading and seed
+    design : the design the readings were compared with
     """
 
     design_name: str
@@ -206,6 +209,29 @@ class Reconciliation:
     n_measured: int
     n: int
     seed: int
+    design: Any = None
+
+    def as_built_timing(self, wiper: Any = None, vcc: Any = None) -> tuple[Any, Any]:
+        """(frequency, duty) of the design with the most likely part values [Hz], [1].
+
+        ``wiper`` (pot designs; default the design's, arrays allowed) and ``vcc`` (default the
+        design's nominal supply) choose the operating point; the fitted timer error scales the
+        frequency.
+        """
+        from ..evaluate import timing_kwargs
+        from ..timing import astable
+
+        d = self.design
+        kw = timing_kwargs(d)
+        for key in ("ra", "rb", "c", "pot", "vd"):
+            if key in self.estimates and key in kw:
+                kw[key] = self.estimates[key]
+        if wiper is not None:
+            kw["wiper"] = wiper
+        if vcc is not None:
+            kw["vcc"] = vcc
+        r = astable(d.timing.topology, **kw)
+        return r.frequency * (1.0 + self.estimates.get("timer", 0.0)), r.duty
 
     @property
     def deviations(self) -> dict[str, float]:
@@ -241,7 +267,7 @@ class Reconciliation:
                 lo, hi = r.band["duty"]
                 got.append(f"duty {100 * r.duty:.4g} % at {r.percentile['duty']:.3g} % "
                            f"(spread {100 * lo:.4g} … {100 * hi:.4g} %)")
-            lines.append(f"  [{r.index}] {'inside ' if r.inside else 'OUTSIDE'} " + "; ".join(got))
+            lines.append(f"  {r.label}: {'inside ' if r.inside else 'OUTSIDE'} " + "; ".join(got))
         lines.append(f"  closest explanation: {self.closest.text()}")
         dev = self.deviations
         shown = [k for k in ("c", "ra", "rb", "pot", "vd", "timer") if k in dev]
@@ -270,6 +296,7 @@ class _Obs:
     wiper: float | None
     vcc: float | None
     t_ambient_c: float | None
+    label: str = ""
 
 
 def _column(value: Any, name: str, n: int) -> list[Any]:
@@ -566,7 +593,7 @@ def _run(design: Any, obs: list[_Obs], n: int, seed: int) -> Reconciliation:
             band[key], pct[key] = (lo, hi), _percentile(samples, x)
             inside &= (x + u >= lo) and (x - u <= hi)
         verdicts.append(ReadingVerdict(
-            index=i, frequency=o.frequency, duty=o.duty, u_frequency=o.u_f, u_duty=o.u_d, wiper=o.wiper, vcc=o.vcc,
+            index=i, label=o.label or str(i), frequency=o.frequency, duty=o.duty, u_frequency=o.u_f, u_duty=o.u_d, wiper=o.wiper, vcc=o.vcc,
             t_ambient_c=o.t_ambient_c, predicted_frequency=float(np.median(sp.frequency)),
             predicted_duty=float(np.median(sp.duty)), band=band, percentile=pct, inside=bool(inside),
             fitted={"frequency": ff, "duty": fd}, spread=sp))
@@ -577,7 +604,7 @@ def _run(design: Any, obs: list[_Obs], n: int, seed: int) -> Reconciliation:
         percentile=dict(far.percentile), estimates=estimates, nominal=nominal, uncertainty=unc,
         prior_uncertainty=prior, explanations=explanations,
         culprit=explanations[0].part if explanations else "", chi2=chi2, n_measured=problem.n_meas, n=int(n),
-        seed=int(seed))
+        seed=int(seed), design=design)
 
 
 def reconcile(design: Any, frequency: Any = None, duty: Any = None, *, wiper: Any = None, vcc: Any = None,
@@ -684,7 +711,7 @@ def reconcile_design(design: Any, *, n: int = 20_000, seed: int = 1) -> Reconcil
 
 def _reconcile_design(design: Any, n: int, seed: int) -> Reconciliation | None:
     obs = []
-    for r in design.bench:
+    for i, r in enumerate(design.bench):
         f, d = r.get("frequency"), r.get("duty")
         if f is None and d is None:
             continue
@@ -698,7 +725,7 @@ def _reconcile_design(design: Any, n: int, seed: int) -> Reconciliation | None:
         c = r.conditions
         wiper = c.wiper if design.timing.topology == "pot" else None
         obs.append(_Obs(fv, None if d is None else d.value, max(u_f, 1e-9 * (fv or 1.0)), max(u_d, 1e-9), wiper,
-                        c.vcc, c.t_ambient_c))
+                        c.vcc, c.t_ambient_c, f"bench[{i}]" + (f" {r.date}" if r.date else "")))
     if not obs:
         return None
     return _run(design, obs, n, seed)

@@ -48,7 +48,7 @@ def bench_match(design: Any, ev: Any) -> Any:
             lo, hi = r.band["duty"]
             got.append(f"duty {100 * r.duty:.4g} % at the {r.percentile['duty']:.3g} % point of "
                        f"{100 * lo:.4g} … {100 * hi:.4g} %")
-        parts.append(f"reading {r.index} {'inside' if r.inside else 'OUTSIDE'}: " + ", ".join(got))
+        parts.append(f"{r.label} {'inside' if r.inside else 'OUTSIDE'}: " + ", ".join(got))
     readings = "; ".join(parts)
     if rec.inside:
         return finding("bench.match", "ok", title, far, limit, "%",

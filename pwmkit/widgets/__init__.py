@@ -18,7 +18,8 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`FlickerPanel` — the design point on the IEEE 1789 regions;
 - :class:`FindingsPanel` — design-rule checks with remedies;
 - :class:`FormulasPanel` — rendered formulas and copyable text;
-- :class:`SchematicPanel` — the circuit as SVG.
+- :class:`SchematicPanel` — the circuit as SVG;
+- :class:`AsBuiltPanel` — bench readings against the design ("As built" tab for designs with readings).
 
 Plot panels need BokehJS on the notebook page: :func:`dashboard` loads it from the installed
 bokeh (no network); when you use plot panels without a dashboard, call :func:`load_bokehjs` once.
@@ -49,6 +50,7 @@ _EXPORTS = {
     "FormulasPanel": "formulas",
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
+    "AsBuiltPanel": "bench",
 }
 
 __all__ = sorted(_EXPORTS)
