@@ -33,6 +33,8 @@ _EXPORTS = {
     "Explanation": "reconciliation",
     "reconcile": "reconciliation",
     "reconcile_design": "reconciliation",
+    "demo_readings": "demo",
+    "write_demo_capture": "demo",
 }
 
 __all__ = sorted(_EXPORTS)
