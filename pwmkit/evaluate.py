@@ -284,6 +284,8 @@ class Evaluation:
         ``spread.duty_p01|p50|p99``, ``spread.frequency_std|n_failed|yield``;
         ``worst_case.frequency_min|frequency_max|duty_min|duty_max``;
         ``sensitivity.frequency.<parameter>`` (∂ln f/∂ln x), ``sensitivity.frequency_rel_std``;
+        ``bench.readings|inside|percentile_frequency|percentile_duty|culprit``, ``bench.estimate.<part>``
+        (designs with bench readings, full mode; :func:`pwmkit.bench.reconcile_design`);
         ``findings.fail_count|warn_count|worst``.
         """
         out: dict[str, float | str] = {}
@@ -348,6 +350,19 @@ class Evaluation:
             for row in self.sensitivity.rows:
                 put(f"sensitivity.frequency.{row.name}", row.s_frequency)
             put("sensitivity.frequency_rel_std", self.sensitivity.frequency_rel_std)
+        if self.design.bench and self.spread is not None:  # bench readings against the design
+            from .bench.reconciliation import reconcile_design
+
+            rec = reconcile_design(self.design, n=max(int(self.spread.n), 1000), seed=int(self.spread.seed or 0))
+            if rec is not None:
+                put("bench.readings", float(len(rec.readings)))
+                put("bench.inside", 1.0 if rec.inside else 0.0)
+                for q, p in rec.percentile.items():
+                    put(f"bench.percentile_{q}", p)
+                put("bench.culprit", rec.culprit)
+                for part in ("c", "ra", "rb", "pot", "vd", "timer"):
+                    if part in rec.estimates:
+                        put(f"bench.estimate.{part}", rec.estimates[part])
         put("findings.fail_count", float(self.findings.fail_count))
         put("findings.warn_count", float(self.findings.warn_count))
         put("findings.worst", self.findings.worst)
