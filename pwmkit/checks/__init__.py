@@ -16,8 +16,8 @@ from __future__ import annotations
 
 from typing import Any
 
-from .findings import ORIGIN_KINDS, SEVERITIES, Finding, Findings, severity_style
 from .bench_rules import RULES as _BENCH_RULES
+from .findings import ORIGIN_KINDS, SEVERITIES, Finding, Findings, severity_style
 from .load_rules import RULES as _LOAD_RULES
 from .timing_rules import RULES as _TIMING_RULES
 
