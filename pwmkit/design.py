@@ -409,8 +409,11 @@ class Design:
         return dataclasses.replace(self, timing=dataclasses.replace(self.timing, **changes))
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain nested dict (JSON/TOML-ready; None values kept)."""
-        return dataclasses.asdict(self)
+        """Plain nested dict (JSON/TOML-ready; None values kept; ``bench`` only when there are readings)."""
+        out = dataclasses.asdict(self)
+        if not self.bench:
+            out.pop("bench")
+        return out
 
     def _repr_html_(self) -> str:
         """Notebook display: the part values and the annotated schematic.

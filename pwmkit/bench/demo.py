@@ -97,7 +97,7 @@ def demo_readings(capture: str | os.PathLike[str]) -> tuple[Any, ...]:
                   Measured("duty", round(float(r.duty), 3), resolution=0.001)),
         conditions=BenchConditions(vcc=VCC, t_ambient_c=AMBIENT_C, wiper=0.3), date=DATE,
         note="DEMO DATA: bench counter and duty meter, knob at 30 %", source="hand-held counter")
-    load = BenchReading(measured=(Measured("i_load", 0.36, accuracy=0.01, resolution=0.01),
+    load = BenchReading(measured=(Measured("i_load", 0.11, accuracy=0.02, resolution=0.005),
                                   Measured("t_mosfet_c", 27.0, resolution=1.0)),
                         conditions=BenchConditions(vcc=VCC, t_ambient_c=AMBIENT_C, wiper=0.6), date=DATE,
                         note="DEMO DATA: clamp meter on the fan lead; thermocouple on the MOSFET tab after 20 min",

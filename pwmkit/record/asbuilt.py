@@ -9,7 +9,7 @@ from __future__ import annotations
 import html
 from typing import Any
 
-__all__ = ["as_built_html", "readings_rows", "parts_rows"]
+__all__ = ["as_built_html", "readings_rows", "parts_rows", "other_rows"]
 
 
 def _e(text: Any) -> str:
@@ -69,18 +69,60 @@ def parts_rows(rec: Any) -> list[tuple[str, ...]]:
     return rows
 
 
+def _design_figure(quantity: str, evaluation: Any) -> tuple[str, str]:
+    """(the design's figure for a measured quantity, what it is) from an evaluation, or ("—", "")."""
+    if evaluation is None:
+        return "—", ""
+    if quantity == "i_load":
+        if evaluation.motor is not None:
+            return _fv(evaluation.motor.i_mean, "A", 3), "mean motor current at the nominal supply and wiper"
+        if evaluation.led is not None:
+            return _fv(evaluation.led.i_avg_total, "A", 3), "mean LED current at the nominal supply"
+    if quantity == "t_mosfet_c" and evaluation.mosfet is not None and not evaluation.mosfet.runaway:
+        return (f"{float(evaluation.mosfet.tj_c):.3g} °C", f"junction at the hottest ambient "
+                f"{evaluation.conditions.t_thermal_c:g} °C (the case runs cooler)")
+    if quantity == "v_high":
+        return _fv(evaluation.timer_output.v_high, "V", 3), "timer output-high level, no load, nominal supply"
+    return "—", ""
+
+
+def other_rows(design: Any, evaluation: Any = None) -> list[tuple[str, ...]]:
+    """(reading, quantity, measured, the design's figure, what that figure is) for the readings other
+    than frequency and duty."""
+    from ..bench.readings import QUANTITIES
+
+    rows = []
+    for i, r in enumerate(design.bench):
+        for m in r.measured:
+            if m.quantity in ("frequency", "duty"):
+                continue
+            unit = QUANTITIES[m.quantity][0]
+            shown = f"{m.value:.3g} °C" if unit == "°C" else _fv(m.value, unit, 4)
+            if m.uncertainty:
+                shown += f" ± {m.uncertainty:.2g} °C" if unit == "°C" else f" ± {_fv(m.uncertainty, unit, 2)}"
+            fig, what = _design_figure(m.quantity, evaluation)
+            rows.append((f"bench[{i}]" + (f" {r.date}" if r.date else ""), QUANTITIES[m.quantity][1], shown, fig, what))
+    return rows
+
+
 def _table(head: tuple[str, ...], rows: list[tuple[str, ...]]) -> str:
     h = "".join(f"<th>{_e(x)}</th>" for x in head)
     body = "".join("<tr>" + "".join(f"<td>{_e(c)}</td>" for c in r) + "</tr>" for r in rows)
     return f"<table class='pwmkit-asbuilt'><tr>{h}</tr>{body}</table>"
 
 
-def as_built_html(design: Any, rec: Any) -> str:
+def as_built_html(design: Any, rec: Any, evaluation: Any = None) -> str:
     """The as-built comparison of a design with bench readings as an HTML fragment.
 
     ``rec`` is :func:`pwmkit.bench.reconcile_design` of ``design`` (None when it holds no
-    frequency or duty reading).
+    frequency or duty reading); ``evaluation`` (optional) gives the design's figures for the other
+    readings (load current, MOSFET temperature, output level).
     """
+    others = other_rows(design, evaluation)
+    other_html = ("<h3>Other readings</h3>" + _table(("reading", "quantity", "measured", "design", "design figure"),
+                                                     others)) if others else ""
+    if rec is None and others:
+        return other_html
     if rec is None:
         n = len(getattr(design, "bench", ()))
         return (f"<p class='note'>{n} bench reading(s), none with a frequency or duty to compare.</p>" if n else
@@ -103,7 +145,7 @@ def as_built_html(design: Any, rec: Any) -> str:
             notes.append(f"<li>reading {i}: {_e(' — '.join(bits))}</li>")
     extra = (f"<details><summary>where the readings come from</summary><ul>{''.join(notes)}</ul></details>"
              if notes else "")
-    return (head + readings + "<h3>Most likely part values given the readings</h3>" + parts
+    return (head + readings + "<h3>Most likely part values given the readings</h3>" + parts + other_html
             + "<p class='note'>Maximum a-posteriori fit with the parts' tolerances as priors; “not resolved” means "
               "the readings do not narrow that part much beyond its tolerance (e.g. a capacitor and a pot track "
               "scale the period together).</p>" + extra)

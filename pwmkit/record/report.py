@@ -275,7 +275,7 @@ def _as_built(design: Design, evaluation: Any, divs: dict[str, str]) -> str:
     from .asbuilt import as_built_html
     from .report_plots import as_built_reconciliation
 
-    return as_built_html(design, as_built_reconciliation(evaluation)) + (
+    return as_built_html(design, as_built_reconciliation(evaluation), evaluation) + (
         f"<div class='plot'>{divs['as-built']}</div>" if "as-built" in divs else "")
 
 

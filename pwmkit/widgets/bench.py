@@ -75,7 +75,8 @@ class AsBuiltPanel(Panel):
         self._shown_design = design
         rec = reconcile_design(design, n=self.n_mc) if design.bench else None
         self.reconciliation = rec
-        self.summary.value = f"<div style='font-size:13px'>{as_built_html(design, rec)}</div>"
+        html = as_built_html(design, rec, self.session.evaluation)
+        self.summary.value = f"<div style='font-size:13px'>{html}</div>"
         if rec is None:
             self.plot_box.layout.display = "none"
             self.status.value = ""
