@@ -328,6 +328,8 @@ def _arrays(t: Any, v: Any) -> tuple[np.ndarray, np.ndarray]:
     if tt.size < 16:
         raise DesignError(f"t: {tt.size} samples; a capture needs at least 16 (and at least two whole periods)")
     for name, arr, unit in (("t", tt, "s"), ("v", vv, "V")):
+        if math.isfinite(float(arr.min())) and math.isfinite(float(arr.max())):  # NaN and ±inf show in min/max
+            continue
         bad = ~np.isfinite(arr)
         if bad.any():
             i = int(np.argmax(bad))
@@ -346,14 +348,13 @@ def _arrays(t: Any, v: Any) -> tuple[np.ndarray, np.ndarray]:
 
 def _clipped(v: np.ndarray, top: bool) -> tuple[bool, float, int]:
     """A pile-up of samples at exactly the extreme value (a flat, clipped top or bottom)."""
-    x = v if top else -v
-    ext = float(x.max())
-    at = x == ext
-    n_at = int(at.sum())
-    rest = x[~at]
-    n_next = int((rest == rest.max()).sum()) if rest.size else 0
-    clipped = n_at >= max(5, int(0.002 * v.size)) and n_at > 3 * n_next
-    return clipped, ext if top else -ext, n_at
+    ext = float(v.max() if top else v.min())
+    n_at = int(np.count_nonzero(v == ext))
+    if n_at < max(5, int(0.002 * v.size)):  # no pile-up (the common case: no second pass)
+        return False, ext, n_at
+    rest = v[v != ext]
+    n_next = int(np.count_nonzero(rest == (rest.max() if top else rest.min()))) if rest.size else 0
+    return n_at > 3 * n_next, ext, n_at
 
 
 def _crossings(t: np.ndarray, v: np.ndarray, level: float) -> np.ndarray:
@@ -368,7 +369,7 @@ def capture_timing(t: Any, v: Any, *, threshold: Any = None) -> CaptureTiming:
     """Frequency, duty, edges and levels of a captured PWM waveform.
 
     Method: the state levels are the medians of the samples below and above the mid-level of the
-    2nd and 98th percentiles (IEEE Std 181 uses the histogram modes; the medians are their
+    2nd and 98th percentiles (order statistics) (IEEE Std 181 uses the histogram modes; the medians are their
     robust stand-in for two-level waveforms). An edge counts only when the trace crosses the
     whole hysteresis band ``threshold ± h`` with ``h`` = 20 % of the amplitude (less if the
     threshold is given close to a level), so noise and ringing that stay inside the band never
@@ -428,14 +429,21 @@ def capture_timing(t: Any, v: Any, *, threshold: Any = None) -> CaptureTiming:
        (method; from memory).
     """
     tt, vv = _arrays(t, v)
-    lo0, hi0 = np.percentile(vv, [2.0, 98.0])
+    n = vv.size
+    lo0, hi0 = (float(x) for x in np.partition(vv, [int(0.02 * (n - 1)), int(0.98 * (n - 1))])[
+        [int(0.02 * (n - 1)), int(0.98 * (n - 1))]])
     scale = max(abs(lo0), abs(hi0), 1e-300)
     if hi0 - lo0 <= 1e-9 * scale:
         raise DesignError(f"v: the trace is flat ({lo0:.6g} … {hi0:.6g} V between the 2nd and 98th percentile); "
                           "no edges to time — is this the right channel?")
     mid0 = 0.5 * (lo0 + hi0)
-    v_low = float(np.median(vv[vv < mid0]))
-    v_high = float(np.median(vv[vv >= mid0]))
+    # medians of the samples below and above the mid-level, as order statistics of the whole trace
+    n_low = int(np.count_nonzero(vv < mid0))
+    n_high = n - n_low
+    ranks = [(n_low - 1) // 2, n_low // 2, n_low + (n_high - 1) // 2, n_low + n_high // 2]
+    part = np.partition(vv, sorted(set(ranks)))
+    v_low = 0.5 * (float(part[ranks[0]]) + float(part[ranks[1]]))
+    v_high = 0.5 * (float(part[ranks[2]]) + float(part[ranks[3]]))
     amp = v_high - v_low
     piles = [_clipped(vv, top) for top in (True, False)]
     if piles[0][0] != piles[1][0]:   # one level piles up at the extreme while the other shows noise
@@ -455,20 +463,17 @@ def capture_timing(t: Any, v: Any, *, threshold: Any = None) -> CaptureTiming:
             raise DesignError(f"threshold: {th:.6g} V is out of range; allowed between the low level {v_low:.6g} V "
                               f"and the high level {v_high:.6g} V of this trace")
     h = min(0.2 * amp, 0.8 * (th - v_low), 0.8 * (v_high - th))
-    state = np.where(vv > th + h, 1, np.where(vv < th - h, 0, -1))
-    known = state >= 0
-    if not known.any():
+    high = vv > th + h
+    known = np.flatnonzero(high | (vv < th - h))           # samples outside the hysteresis band
+    if known.size == 0:
         raise DesignError("v: the trace never leaves the band around the threshold; no edges to time")
-    idx = np.where(known, np.arange(vv.size), 0)
-    np.maximum.accumulate(idx, out=idx)
-    first_known = int(np.argmax(known))
-    st = state[idx]
-    st[:first_known] = st[first_known]
-    change = np.nonzero(st[1:] != st[:-1])[0] + 1          # first sample beyond the far band edge
+    ks = high[known]
+    flips = np.flatnonzero(ks[1:] != ks[:-1]) + 1
+    change = known[flips]                                  # first sample beyond the far band edge
+    near = known[flips - 1]                                # last sample on the near side
     edge_time = np.empty(change.size)
-    rising = st[change] == 1
-    for e, k in enumerate(change):
-        j = idx[k - 1]                                     # last sample inside the band's near side
+    rising = ks[flips]
+    for e, (j, k) in enumerate(zip(near, change)):
         seg_t, seg_v = tt[j:k + 1], vv[j:k + 1]
         cr = _crossings(seg_t, seg_v, th)
         edge_time[e] = 0.5 * (cr[0] + cr[-1])
