@@ -48,7 +48,7 @@ def append_reading(path: str | Path, reading: Any, *, dry_run: bool = False) -> 
     network), when the appended text would not read back to exactly the design plus the reading,
     or when the file changed on disk during the call.
     """
-    from .bench.readings import reading_to_toml
+    from .bench.readings import check_conditions, reading_to_toml
     from .record.designfile import design_from_toml
     from .record.files import atomic_write
 
@@ -56,6 +56,7 @@ def append_reading(path: str | Path, reading: Any, *, dry_run: bool = False) -> 
     data, text = _read_text(p)
     design = design_from_toml(text, source=str(p))
     updated = design.with_reading(reading)
+    check_conditions(updated)
     entry = reading_to_toml(updated.bench[-1])
     new_text = text + ("" if text.endswith("\n") else "\n") + "\n" + entry
     try:

@@ -357,7 +357,12 @@ class Design:
         self._check_bench()
 
     def _check_bench(self) -> None:
-        """Readings must be BenchReading objects; a wiper condition needs the pot topology."""
+        """Readings must be BenchReading objects.
+
+        A reading's wiper on a design without a pot is allowed here (a dashboard may switch the
+        topology while exploring; :func:`pwmkit.bench.reconcile_design` then ignores that wiper);
+        design files refuse it (:func:`pwmkit.bench.readings.check_conditions`).
+        """
         if not self.bench:
             object.__setattr__(self, "bench", ())
             return
@@ -370,9 +375,6 @@ class Design:
             if not isinstance(reading, BenchReading):
                 raise DesignError(f"bench[{i}]: expected a BenchReading, got {type(reading).__name__}")
             reading.check(i)
-            if reading.conditions.wiper is not None and self.timing.topology != "pot":
-                raise DesignError(f"bench[{i}].conditions.wiper: {reading.conditions.wiper:g} given, but the "
-                                  f"{self.timing.topology!r} topology has no potentiometer; remove the wiper")
 
     def with_reading(self, reading: Any) -> Design:
         """A copy with one more bench reading (a :class:`pwmkit.bench.BenchReading`) at the end."""

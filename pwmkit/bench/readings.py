@@ -40,7 +40,7 @@ from typing import Any
 from ..errors import DesignError
 
 __all__ = ["QUANTITIES", "Measured", "BenchConditions", "BenchReading", "readings_from_data",
-           "readings_to_toml", "reading_path"]
+           "readings_to_toml", "reading_path", "check_conditions"]
 
 #: Measured quantities a reading may hold → (unit, meaning). Fractions (duty) in [1].
 QUANTITIES: Mapping[str, tuple[str, str]] = {
@@ -338,6 +338,14 @@ def _reading_from_table(index: int, table: Any) -> BenchReading:
         object.__setattr__(reading, name, default)
     reading.check(index)
     return reading
+
+
+def check_conditions(design: Any) -> None:
+    """Refuse readings whose conditions do not fit the design (a wiper on a design without a pot)."""
+    for i, reading in enumerate(design.bench):
+        if reading.conditions.wiper is not None and design.timing.topology != "pot":
+            raise DesignError(f"{reading_path(i, 'conditions', 'wiper')}: {reading.conditions.wiper:g} given, but the "
+                              f"{design.timing.topology!r} topology has no potentiometer; remove the wiper")
 
 
 def readings_from_data(value: Any) -> tuple[BenchReading, ...]:

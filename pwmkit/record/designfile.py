@@ -462,6 +462,10 @@ def _from_data(data: dict[str, Any]) -> Design:
     except DesignError as exc:
         raise DesignError(_field_message(str(exc), "design")) from None
     _check_names(design)
+    if design.bench:
+        from ..bench.readings import check_conditions
+
+        check_conditions(design)
     return design
 
 

@@ -83,11 +83,14 @@ def test_bench_as_a_table_not_an_array_is_refused():
         design_from_toml(text)
 
 
-def test_wiper_on_a_fixed_network_is_refused():
+def test_wiper_on_a_fixed_network_is_refused_in_a_file():
     from pwmkit.design import Design
 
-    with pytest.raises(DesignError, match=r"bench\[0\]\.conditions\.wiper: 0\.5 given, but the 'steered' topology"):
-        Design(bench=(BenchReading(measured={"frequency": 1e3}, conditions=BenchConditions(wiper=0.5)),))
+    reading = BenchReading(measured={"frequency": 1e3}, conditions=BenchConditions(wiper=0.5))
+    design = Design(bench=(reading,))      # allowed in code: a dashboard may switch the topology while exploring
+    with pytest.raises(DesignError, match=r"f\.toml: bench\[0\]\.conditions\.wiper: 0\.5 given, but the 'steered' "
+                                          r"topology has no potentiometer"):
+        design_from_toml(design_to_toml(design), source="f.toml")
 
 
 def test_api_errors_name_the_field():
