@@ -353,7 +353,10 @@ class Evaluation:
         if self.design.bench and self.spread is not None:  # bench readings against the design
             from .bench.reconciliation import reconcile_design
 
-            rec = reconcile_design(self.design, n=max(int(self.spread.n), 1000), seed=int(self.spread.seed or 0))
+            try:
+                rec = reconcile_design(self.design, n=max(int(self.spread.n), 1000), seed=int(self.spread.seed or 0))
+            except DesignError:  # the bench.match finding says why
+                rec = None
             if rec is not None:
                 put("bench.readings", float(len(rec.readings)))
                 put("bench.inside", 1.0 if rec.inside else 0.0)

@@ -25,16 +25,22 @@ def bench_match(design: Any, ev: Any) -> Any:
     reading's stated uncertainty interval meets the 0.135 … 99.865 % band (the ±3σ equivalent);
     fail otherwise, naming the part that alone explains the readings with the smallest move
     relative to its tolerance. Value: the percentile of the reading furthest from the median;
-    limit: the band edge on its side. Origin: common-practice (three-sigma coverage).
+    limit: the band edge on its side. Warn when the comparison cannot run (e.g. a reading's supply
+    at which the design does not oscillate). Origin: common-practice (three-sigma coverage).
     """
     if not getattr(design, "bench", ()) or ev.spread is None:
         return None
     from ..bench import reconcile_design
+    from ..errors import DesignError
 
-    rec = reconcile_design(design, n=max(int(ev.spread.n), 1000), seed=int(ev.spread.seed or 0))
+    title = "Bench readings inside the predicted spread"
+    try:
+        rec = reconcile_design(design, n=max(int(ev.spread.n), 1000), seed=int(ev.spread.seed or 0))
+    except DesignError as exc:
+        return finding("bench.match", "warn", title, None, None, "%", f"The readings could not be compared: {exc}",
+                       "Check the readings' conditions (supply, wiper) in the [[bench]] entries.", "common-practice")
     if rec is None:
         return None
-    title = "Bench readings inside the predicted spread"
     far = max(rec.percentile.values(), key=lambda p: abs(p - 50.0))
     limit = 99.865 if far >= 50.0 else 0.135
     parts = []

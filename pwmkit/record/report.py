@@ -275,7 +275,11 @@ def _as_built(design: Design, evaluation: Any, divs: dict[str, str]) -> str:
     from .asbuilt import as_built_html
     from .report_plots import as_built_reconciliation
 
-    return as_built_html(design, as_built_reconciliation(evaluation), evaluation) + (
+    try:
+        rec = as_built_reconciliation(evaluation)
+    except DesignError as exc:
+        return f"<p class='note'>The bench readings could not be compared with the design: {_e(exc)}</p>"
+    return as_built_html(design, rec, evaluation) + (
         f"<div class='plot'>{divs['as-built']}</div>" if "as-built" in divs else "")
 
 

@@ -226,3 +226,16 @@ def test_design_file_example_round_trips():
 
     assert design_from_toml(design_to_toml(design)) == design
     assert len(design.bench) == 3 and np.isfinite(design.bench[0].value("frequency"))
+
+
+def test_a_reading_at_conditions_where_the_design_stops_is_a_warning_not_a_crash():
+    from pwmkit.evaluate import evaluate
+    from pwmkit.record.report import report_html
+
+    reading = BenchReading(measured={"frequency": 1e3}, conditions=BenchConditions(vcc=1.0, t_ambient_c=25.0))
+    design = _design().with_reading(reading)
+    ev = evaluate(design, n_mc=2000)
+    f = ev.findings.by_id("bench.match")
+    assert f.severity == "warn" and "could not be compared" in f.explanation and "vcc" in f.explanation
+    assert "bench.inside" not in ev.key_results()
+    assert "could not be compared with the design" in report_html(design, ev)
