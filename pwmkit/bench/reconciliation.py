@@ -78,6 +78,8 @@ _UNITS = {"ra": "Ω", "rb": "Ω", "c": "F", "pot": "Ω", "vd": "V", "vcc": "V", 
 _SHARED = ("ra", "rb", "c", "pot", "vd", "vsat", "r_on", "vctl", "timer")
 _PER_READING = ("vcc", "t_ambient_c", "c_temperature")
 _BIG = 1e6
+_TIMER_BOUND = 0.5                     # largest timer error the fits consider [1]
+_PART_LOW, _PART_HIGH = -0.999, 999.0  # relative deviations the fits consider (a wrong part fitted)
 
 
 @dataclass(frozen=True, eq=False)
@@ -446,8 +448,10 @@ class _Problem:
         lo = np.full(len(self.vars), -np.inf)
         hi = np.full(len(self.vars), np.inf)
         for i, v in enumerate(self.vars):
-            if v.kind in ("relative",):       # a part value stays positive
-                lo[i] = (-0.95 - v.mean) / v.sigma
+            if v.key == "timer":              # a timer's own error stays within ±50 % (our bound)
+                lo[i], hi[i] = (-_TIMER_BOUND - v.mean) / v.sigma, (_TIMER_BOUND - v.mean) / v.sigma
+            elif v.kind == "relative":        # a part value stays positive: 1/1000 … 1000 × nominal
+                lo[i], hi[i] = (_PART_LOW - v.mean) / v.sigma, (_PART_HIGH - v.mean) / v.sigma
             elif v.kind == "absolute" and v.key == "vcc":
                 lo[i] = (0.05 * v.mean - v.mean) / v.sigma
         return lo, hi
@@ -493,13 +497,19 @@ def _explain(problem: _Problem, design: Any) -> list[Explanation]:
 
         lo, hi = float(max(lo_all[idx])), float(min(hi_all[idx]))
         best = None
-        for start in (0.0, -3.0, 3.0, -15.0, 15.0):
-            s0 = min(max(start, lo + 1e-9), hi - 1e-9) if math.isfinite(lo) else start
+        v0 = problem.vars[idx[0]]
+        # starts: nominal, then moves of 0.5×, 2× and 10× the band's half-width each way (a wrong part)
+        starts = [0.0] + [sign * mult * (v0.high - v0.low) / (2.0 * v0.sigma) for mult in (0.5, 2.0, 10.0)
+                          for sign in (-1.0, 1.0)]
+        for start in starts:
+            s0 = min(max(start, lo + 1e-9 * max(1.0, abs(lo))), hi - 1e-9 * max(1.0, abs(hi)))
             sol = least_squares(resid, np.array([s0]), bounds=([lo], [hi]), method="trf", diff_step=1e-6,
-                                xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=400)
+                                xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=100)
             chi2 = float(np.sum(sol.fun**2))
             if best is None or chi2 < best[1] - 1e-12:
                 best = (float(sol.x[0]), chi2, sol.fun)
+            if np.all(np.abs(sol.fun) <= 0.1):   # reproduces the readings: no need to look further
+                break
         assert best is not None
         s, chi2, fun = best
         v = problem.vars[idx[0]]

@@ -65,3 +65,21 @@ def test_bench_package_is_light():
     root = Path(__file__).resolve().parents[2]
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, cwd=root)
     assert out.stdout.strip() == ""
+
+
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(f=st.floats(1.0, 1e7), d=st.floats(0.0, 1.0), vcc=st.none() | st.floats(0.5, 30.0),
+       t=st.none() | st.floats(-40.0, 120.0))
+def test_reconcile_is_finite_or_refuses(f, d, vcc, t):
+    from pwmkit.bench import reconcile
+    from pwmkit.design import Design, Timing
+
+    design = Design(timing=Timing(topology="steered", ra=10e3, rb=4.7e3, c=47e-9, r_tolerance=0.01,
+                                  c_tolerance=0.1))
+    try:
+        r = reconcile(design, frequency=f, duty=d, vcc=vcc, t_ambient_c=t, n=2000)
+    except DesignError:
+        return
+    assert all(math.isfinite(x) for x in r.estimates.values())
+    assert all(0.0 <= p <= 100.0 for p in r.percentile.values())
+    assert r.culprit in r.estimates or r.culprit == "vcc"
