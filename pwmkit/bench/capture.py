@@ -315,6 +315,22 @@ class CaptureTiming:
         return (f"CaptureTiming(f = {self.frequency:.6g} Hz, duty = {100 * self.duty:.4f} %, "
                 f"{self.n_periods} whole periods, levels {self.v_low:.4g} / {self.v_high:.4g} V)")
 
+    def _repr_html_(self) -> str:
+        from ..values import format_value as fv
+
+        def t(x: float) -> str:
+            return fv(x, "s", 4) if math.isfinite(x) else "—"
+
+        rows = [("frequency", f"{fv(self.frequency, 'Hz', 6)} (sampling limit ±{100 * self.frequency_limit:.2g} %)"),
+                ("duty", f"{100 * self.duty:.4f} % (sampling limit ±{100 * self.duty_limit:.2g} points)"),
+                ("t_high / t_low", f"{t(self.t_high)} / {t(self.t_low)}"),
+                ("rise / fall (10–90 %)", f"{t(self.rise_time)} / {t(self.fall_time)}"),
+                ("levels low / high", f"{fv(self.v_low, 'V', 4)} / {fv(self.v_high, 'V', 4)}"),
+                ("threshold ± hysteresis", f"{fv(self.threshold, 'V', 4)} ± {fv(self.hysteresis, 'V', 3)}"),
+                ("whole periods / samples", f"{self.n_periods} / {self.n_samples}")]
+        body = "".join(f"<tr><th style='text-align:left'>{a}</th><td>{b}</td></tr>" for a, b in rows)
+        return f"<table class='pwmkit-result'><caption>capture timing</caption>{body}</table>"
+
 
 def _arrays(t: Any, v: Any) -> tuple[np.ndarray, np.ndarray]:
     try:

@@ -283,7 +283,14 @@ class Reconciliation:
         return f"Reconciliation({self.design_name!r}, {len(self.readings)} reading(s) {verdict}: {pc}; culprit {self.culprit})"
 
     def _repr_html_(self) -> str:
-        return "<pre class='pwmkit-reconcile'>" + html.escape(self.summary()) + "</pre>"
+        """Notebook display: the as-built tables (:func:`pwmkit.record.asbuilt.as_built_html`)."""
+        try:
+            from ..record.asbuilt import as_built_html
+
+            body = as_built_html(self.design, self)
+        except Exception:  # noqa: BLE001 - a display hook never raises; fall back to the text summary
+            body = "<pre>" + html.escape(self.summary()) + "</pre>"
+        return f"<div class='pwmkit-reconcile'>{body}</div>"
 
 
 # ------------------------------------------------------------------------------------------------

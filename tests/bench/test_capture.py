@@ -204,3 +204,19 @@ def test_csv_round_trip_to_a_reading(tmp_path):
     assert r.value("duty") == pytest.approx(0.6, rel=1e-3)
     assert r.conditions.vcc == 12.0
     assert "m.csv" in r.source and "whole periods" in r.source
+
+
+def test_channel_by_name_or_number_and_current_channels_refused(tmp_path):
+    syn = pwm(20e3, 0.4, periods=12, noise=0.02, seed=9)
+    rows = "\n".join(f"{t:.9g},{0.5 * v:.6g},{v:.6g},{400 + v:.6g}" for t, v in zip(syn.t, syn.v))
+    p = _write(tmp_path, "n.csv", "Time (s),GATE (V),OUT (V),I_fan (mA)\n" + rows + "\n")
+    by_name = reading_from_capture(p, channel="out")
+    by_number = reading_from_capture(p, channel=1)
+    assert by_name.value("v_high") == pytest.approx(10.6, abs=0.05)
+    assert by_number == by_name and "channel OUT" in by_name.source
+    with pytest.raises(DesignError, match=r"channel: 'I_fan' is in A, not volts"):
+        reading_from_capture(p, channel="I_fan")
+    with pytest.raises(DesignError, match=r"channel: 'CH7' is not in the capture; channels: GATE, OUT, I_fan"):
+        reading_from_capture(p, channel="CH7")
+    m = capture_timing(syn.t, syn.v)
+    assert "capture timing" in m._repr_html_()
