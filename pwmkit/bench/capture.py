@@ -548,7 +548,7 @@ def _level_time(t: np.ndarray, v: np.ndarray, i: int, level: float) -> float:
 
 def reading_from_capture(capture: Capture | str | os.PathLike[str], *, channel: str | int = 0,
                          threshold: Any = None, vcc: Any = None, t_ambient_c: Any = None, wiper: Any = None,
-                         date: Any = None, note: str = "", duty_resolution: bool = True) -> Any:
+                         date: Any = None, note: str = "", sampling_limits: bool = True) -> Any:
     """A :class:`~pwmkit.bench.BenchReading` of frequency, duty and edges measured from a capture.
 
     The frequency and duty carry their sampling limits as the stated accuracy
@@ -570,7 +570,7 @@ def reading_from_capture(capture: Capture | str | os.PathLike[str], *, channel: 
         When the capture was taken (ISO text).
     note : str
         Free text.
-    duty_resolution : bool
+    sampling_limits : bool
         Store the sampling limits as the stated accuracy (default True).
     """
     from .readings import BenchConditions, BenchReading, Measured
@@ -580,8 +580,8 @@ def reading_from_capture(capture: Capture | str | os.PathLike[str], *, channel: 
     if cap.units[name] != "V":
         raise DesignError(f"channel: {name!r} is in {cap.units[name]}, not volts; give the output-voltage channel")
     m = capture_timing(cap.time, cap.channel(channel), threshold=threshold)
-    acc = m.frequency_limit if duty_resolution else None
-    res = m.duty_limit if duty_resolution else None
+    acc = m.frequency_limit if sampling_limits else None
+    res = m.duty_limit if sampling_limits else None
     measured = [Measured("frequency", m.frequency, accuracy=acc), Measured("duty", m.duty, resolution=res),
                 Measured("t_high", m.t_high), Measured("t_low", m.t_low)]
     for key in ("rise_time", "fall_time"):
