@@ -77,13 +77,20 @@ def test_as_built_panel_renders_the_readings(lab, page, artifacts):
     page.wait_for_timeout(1000)
     _accept_dialog(page)
     page.wait_for_selector(".jp-Notebook-ExecutionIndicator[data-status='idle']", timeout=90_000)
-    _run_all(page)
+    page.locator(".jp-StatusBar-TextItem", has_text="| Idle").first.wait_for(timeout=60_000)
     marker = page.locator(".jp-OutputArea-output", has_text="PWMKIT-AS-BUILT-OK")
     error = page.locator(".jp-OutputArea-output[data-mime-type='application/vnd.jupyter.stderr']")
-    marker.or_(error).first.wait_for(state="attached", timeout=180_000)
+    panel = page.locator(".pwmkit-as-built").first
+    for _attempt in range(2):
+        _run_all(page)
+        marker.or_(error).first.wait_for(state="attached", timeout=180_000)
+        try:  # a kernel that answers before the page's widget manager is ready leaves "model not found"
+            panel.wait_for(state="attached", timeout=20_000)
+            break
+        except Exception:  # noqa: BLE001 - playwright's TimeoutError: run the cells once more
+            page.wait_for_timeout(2000)
     try:
         assert error.count() == 0, f"a cell failed or warned: {error.first.inner_text()[:1500]}"
-        panel = page.locator(".pwmkit-as-built").first
         panel.scroll_into_view_if_needed()
         expect(panel.locator(".pwmkit-asbuilt-summary")).to_contain_text("every reading lies inside", timeout=30_000)
         expect(panel.locator(".pwmkit-plot-asbuilt canvas").first).to_be_visible(timeout=30_000)
