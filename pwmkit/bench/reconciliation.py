@@ -418,38 +418,57 @@ class _Problem:
                     self.vars.append(shared[d.key])
         self.n_meas = sum((o.frequency is not None) + (o.duty is not None) for o in obs)
 
-    def devs(self, z: np.ndarray) -> list[dict[str, float]]:
-        out: list[dict[str, float]] = [dict() for _ in self.models]
-        for v, zi in zip(self.vars, z):
-            x = v.mean + v.sigma * float(zi)
+    def devs(self, zs: np.ndarray) -> list[dict[str, np.ndarray]]:
+        """Deviations of every reading's model at the rows of ``zs`` (m × k normalised points)."""
+        m = zs.shape[0]
+        out: list[dict[str, np.ndarray]] = [dict() for _ in self.models]
+        for j, v in enumerate(self.vars):
+            x = v.mean + v.sigma * zs[:, j]
             for i in (range(len(self.models)) if v.reading is None else (v.reading,)):
                 if v.reading is not None or any(d.key == v.key for d in self.models[i].dims):
                     out[i][v.key] = x
-        for i, m in enumerate(self.models):  # dimensions held fixed (zero-width bands)
-            for d in m.dims:
-                out[i].setdefault(d.key, 0.5 * (d.low + d.high))
+        for i, model in enumerate(self.models):  # dimensions held fixed (zero-width bands)
+            for d in model.dims:
+                out[i].setdefault(d.key, np.full(m, 0.5 * (d.low + d.high)))
         return out
 
-    def predict(self, z: np.ndarray) -> list[tuple[float, float]]:
+    def predict_many(self, zs: np.ndarray) -> list[tuple[np.ndarray, np.ndarray]]:
+        """(frequency, duty) arrays per reading at the rows of ``zs`` (NaN where it does not oscillate)."""
         from .._spread import evaluate
 
-        res = []
-        for m, dev in zip(self.models, self.devs(z)):
-            f, d, ok, _r = evaluate(m, {k: np.array([x]) for k, x in dev.items()}, 1)
-            res.append((float(f[0]), float(d[0])) if ok[0] else (math.nan, math.nan))
-        return res
+        m = zs.shape[0]
+        return [evaluate(model, dev, m)[:2] for model, dev in zip(self.models, self.devs(zs))]
+
+    def predict(self, z: np.ndarray) -> list[tuple[float, float]]:
+        return [(float(f[0]), float(d[0])) for f, d in self.predict_many(np.asarray(z, dtype=float)[None, :])]
+
+    def residuals_many(self, zs: np.ndarray) -> np.ndarray:
+        """Normalised measurement residuals, one row per point of ``zs`` (m × n_measured)."""
+        cols = []
+        for (f, d), o in zip(self.predict_many(zs), self.obs):
+            with np.errstate(invalid="ignore"):
+                if o.frequency is not None:
+                    cols.append(np.where(np.isfinite(f), (f - o.frequency) / o.u_f, _BIG))
+                if o.duty is not None:
+                    cols.append(np.where(np.isfinite(d), (d - o.duty) / o.u_d, _BIG))
+        return np.stack(cols, axis=1)
 
     def measurement_residuals(self, z: np.ndarray) -> np.ndarray:
-        out = []
-        for (f, d), o in zip(self.predict(z), self.obs):
-            if o.frequency is not None:
-                out.append((f - o.frequency) / o.u_f if math.isfinite(f) else _BIG)
-            if o.duty is not None:
-                out.append((d - o.duty) / o.u_d if math.isfinite(d) else _BIG)
-        return np.asarray(out)
+        return self.residuals_many(np.asarray(z, dtype=float)[None, :])[0]
 
     def residuals(self, z: np.ndarray) -> np.ndarray:
         return np.concatenate([self.measurement_residuals(z), np.asarray(z, dtype=float)])
+
+    def jacobian(self, z: np.ndarray) -> np.ndarray:
+        """Forward-difference Jacobian of :meth:`residuals`, all k steps in one vectorised evaluation."""
+        k = len(self.vars)
+        lo, hi = self.bounds()
+        step = 1e-6 * np.maximum(1.0, np.abs(z))
+        step = np.where(z + step > hi, -step, step)          # stay inside the bounds
+        zs = np.vstack([z[None, :], z[None, :] + np.diag(step)])
+        r = self.residuals_many(zs)
+        jm = ((r[1:] - r[0]) / step[:, None]).T              # n_measured × k
+        return np.vstack([jm, np.eye(k)])
 
     def bounds(self) -> tuple[np.ndarray, np.ndarray]:
         lo = np.full(len(self.vars), -np.inf)
@@ -472,8 +491,8 @@ def _fit(problem: _Problem) -> tuple[np.ndarray, np.ndarray]:
     if k == 0:
         return np.zeros(0), np.zeros(0)
     lo, hi = problem.bounds()
-    sol = least_squares(problem.residuals, np.zeros(k), bounds=(lo, hi), method="trf", x_scale=1.0,
-                        diff_step=1e-6, xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=200 * k)
+    sol = least_squares(problem.residuals, np.zeros(k), jac=problem.jacobian, bounds=(lo, hi), method="trf",
+                        x_scale=1.0, xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=200 * k)
     jac = np.asarray(sol.jac)
     try:
         cov = np.linalg.inv(jac.T @ jac)
@@ -503,22 +522,24 @@ def _explain(problem: _Problem, design: Any) -> list[Explanation]:
             return problem.measurement_residuals(z)
 
         lo, hi = float(max(lo_all[idx])), float(min(hi_all[idx]))
-        best = None
         v0 = problem.vars[idx[0]]
-        # starts: nominal, then moves of 0.5×, 2× and 10× the band's half-width each way (a wrong part)
-        starts = [0.0] + [sign * mult * (v0.high - v0.low) / (2.0 * v0.sigma) for mult in (0.5, 2.0, 10.0)
-                          for sign in (-1.0, 1.0)]
-        for start in starts:
-            s0 = min(max(start, lo + 1e-9 * max(1.0, abs(lo))), hi - 1e-9 * max(1.0, abs(hi)))
-            sol = least_squares(resid, np.array([s0]), bounds=([lo], [hi]), method="trf", diff_step=1e-6,
-                                xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=100)
-            chi2 = float(np.sum(sol.fun**2))
-            if best is None or chi2 < best[1] - 1e-12:
-                best = (float(sol.x[0]), chi2, sol.fun)
-            if np.all(np.abs(sol.fun) <= 0.1):   # reproduces the readings: no need to look further
-                break
-        assert best is not None
-        s, chi2, fun = best
+        # a coarse vectorised scan over the whole allowed range (a wrong part is a factor away, so the
+        # scan is logarithmic for part values), then a least-squares refinement from its best point
+        if key == "timer":
+            devs = np.linspace(-_TIMER_BOUND, _TIMER_BOUND, 201)
+        elif key == "vcc":
+            devs = v0.mean * np.geomspace(0.3, 3.0, 201)
+        else:
+            devs = np.geomspace(1.0 + _PART_LOW, 1.0 + _PART_HIGH, 361) - 1.0
+        grid = np.clip((devs - v0.mean) / v0.sigma, lo, hi)
+        zs = np.zeros((grid.size, k))
+        zs[:, idx] = grid[:, None]
+        chi2_grid = np.sum(problem.residuals_many(zs) ** 2, axis=1)
+        start = float(grid[int(np.argmin(chi2_grid))])
+        s0 = min(max(start, lo + 1e-9 * max(1.0, abs(lo))), hi - 1e-9 * max(1.0, abs(hi)))
+        sol = least_squares(resid, np.array([s0]), bounds=([lo], [hi]), method="trf", diff_step=1e-7,
+                            xtol=1e-12, ftol=1e-12, gtol=1e-12, max_nfev=100)
+        s, chi2, fun = float(sol.x[0]), float(np.sum(sol.fun**2)), sol.fun
         v = problem.vars[idx[0]]
         dev = v.mean + v.sigma * s
         explains = bool(np.all(np.abs(fun) <= 2.0))

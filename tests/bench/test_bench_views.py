@@ -247,3 +247,15 @@ def test_a_reading_at_conditions_where_the_design_stops_is_a_warning_not_a_crash
     assert f.severity == "warn" and "could not be compared" in f.explanation and "vcc" in f.explanation
     assert "bench.inside" not in ev.key_results()
     assert "could not be compared with the design" in report_html(design, ev)
+
+
+def test_check_json_of_the_committed_as_built_example(capsys):
+    import json
+
+    path = ROOT / "examples" / "greenhouse-fan-as-built.toml"
+    assert main(["check", str(path), "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    (entry,) = doc["designs"]
+    bench = [f for f in entry["findings"] if f["id"] == "bench.match"]
+    assert bench and bench[0]["severity"] == "ok" and "Most likely difference: pot track" in bench[0]["explanation"]
+    assert entry["key_results"]["bench.readings"] == 2.0
