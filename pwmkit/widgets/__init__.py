@@ -19,7 +19,13 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`FindingsPanel` — design-rule checks with remedies;
 - :class:`FormulasPanel` — rendered formulas and copyable text;
 - :class:`SchematicPanel` — the circuit as SVG;
+- :class:`RequirementsPanel`, :class:`PartsPanel` — requirements and criterion; dielectric, tolerances, series;
+- :class:`CandidatesPanel` — ranked part sets for the requirements (non-blocking search), "use this set";
+- :class:`ConditionsPanel` — frequency and duty against supply and ambient;
+- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes";
 - :class:`AsBuiltPanel` — bench readings against the design ("As built" tab for designs with readings).
+
+``dashboard("my-driver.toml")`` opens a design file; Save writes the edits back to it.
 
 Plot panels need BokehJS on the notebook page: :func:`dashboard` loads it from the installed
 bokeh (no network); when you use plot panels without a dashboard, call :func:`load_bokehjs` once.
@@ -51,6 +57,11 @@ _EXPORTS = {
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
     "AsBuiltPanel": "bench",
+    "RequirementsPanel": "requirements",
+    "PartsPanel": "requirements",
+    "CandidatesPanel": "candidates",
+    "ConditionsPanel": "conditions",
+    "FileBar": "designfile_bar",
 }
 
 __all__ = sorted(_EXPORTS)
