@@ -259,3 +259,19 @@ def test_check_json_of_the_committed_as_built_example(capsys):
     bench = [f for f in entry["findings"] if f["id"] == "bench.match"]
     assert bench and bench[0]["severity"] == "ok" and "Most likely difference: pot track" in bench[0]["explanation"]
     assert entry["key_results"]["bench.readings"] == 2.0
+
+
+def test_dashboard_save_keeps_the_readings(tmp_path):
+    pytest.importorskip("ipywidgets")
+    from pwmkit.widgets import dashboard
+
+    path = tmp_path / "fan.toml"
+    path.write_text((ROOT / "examples" / "greenhouse-fan-as-built.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    before = load_design(path)
+    dash = dashboard(path)
+    assert dash.tabs.titles[-1] == "As built"
+    dash.session.edit(lambda d: d.with_timing(c=1.0e-9))
+    dash.file.do_save()
+    after = load_design(path)
+    assert after.bench == before.bench                     # the readings survive a save from the dashboard
+    assert after.timing.c == 1.0e-9
