@@ -1,8 +1,9 @@
 """Command line ``pwmkit bench`` (presentation layer): keep bench readings with a design file.
 
-``bench add DESIGN.toml CAPTURE.csv [--wiper W] [--vcc V] [--ambient T] …``
-    measure a scope capture (:func:`pwmkit.bench.reading_from_capture`), append the reading to the
-    design file as a ``[[bench]]`` entry and say whether it lies inside the predicted spread.
+``bench add DESIGN.toml CAPTURE.csv [--wiper W] [--vcc V] [--ambient T] [--measure NAME=VALUE …]``
+    measure a scope capture (:func:`pwmkit.bench.reading_from_capture`) and/or take instrument
+    readings given as ``--measure``, append them to the design file as one ``[[bench]]`` entry and
+    say whether it lies inside the predicted spread.
 ``bench show DESIGN.toml``
     reconcile every frequency/duty reading the design file holds (:func:`pwmkit.bench.reconcile_design`).
 
@@ -75,19 +76,42 @@ def append_reading(path: str | Path, reading: Any, *, dry_run: bool = False) -> 
     return updated, entry
 
 
+def _measured_options(items: list[str] | None) -> list[Any]:
+    """``--measure NAME=VALUE`` options → Measured values (checked like the design file's)."""
+    from .bench.readings import QUANTITIES, Measured
+
+    out = []
+    for item in items or ():
+        name, sep, value = item.partition("=")
+        if not sep or not name.strip() or not value.strip():
+            raise DesignError(f"--measure: {item!r} is not allowed; give NAME=VALUE, e.g. frequency=31.6k, duty=30.4%, "
+                              f"i_load=110m; names: {', '.join(QUANTITIES)}")
+        out.append(Measured(name.strip(), value.strip()))
+    return out
+
+
 def _add(args: argparse.Namespace) -> int:
     from .bench import reading_from_capture
-    from .bench.readings import BenchConditions
+    from .bench.readings import BenchConditions, BenchReading
 
     channel: Any = args.channel
     if channel is not None and channel.isdigit():
         channel = int(channel)
     date = args.date if args.date is not None else _dt.date.today().isoformat()
     cond = BenchConditions(vcc=args.vcc, t_ambient_c=args.ambient, wiper=args.wiper)  # checks the options
-    _progress(f"pwmkit bench: measuring {args.capture} …")
-    reading = reading_from_capture(args.capture, channel=0 if channel is None else channel, threshold=args.threshold,
-                                   vcc=cond.vcc, t_ambient_c=cond.t_ambient_c, wiper=cond.wiper, date=date,
-                                   note=args.note or "")
+    extra = _measured_options(args.measure)
+    if args.capture is None and not extra:
+        raise DesignError("bench add: nothing to add; give a CAPTURE.csv and/or --measure NAME=VALUE readings")
+    if args.capture is not None:
+        _progress(f"pwmkit bench: measuring {args.capture} …")
+        reading = reading_from_capture(args.capture, channel=0 if channel is None else channel,
+                                       threshold=args.threshold, vcc=cond.vcc, t_ambient_c=cond.t_ambient_c,
+                                       wiper=cond.wiper, date=date, note=args.note or "")
+        reading = BenchReading(measured=(*reading.measured, *extra), conditions=reading.conditions, date=reading.date,
+                               note=reading.note, source=reading.source)
+    else:
+        reading = BenchReading(measured=tuple(extra), conditions=cond, date=date, note=args.note or "",
+                               source=args.source or "")
     design, entry = append_reading(args.design, reading, dry_run=args.dry_run)
     print(("would append (dry run):\n" if args.dry_run else f"{args.design}: reading {len(design.bench) - 1} added\n")
           + entry)
@@ -129,7 +153,12 @@ def register_bench(sub: Any) -> None:
                         description="Measure frequency, duty, edges and levels of a CSV scope capture and append "
                                     "them as a [[bench]] entry (the rest of the file is kept as it is).")
     a.add_argument("design", metavar="DESIGN.toml")
-    a.add_argument("capture", metavar="CAPTURE.csv")
+    a.add_argument("capture", metavar="CAPTURE.csv", nargs="?", default=None,
+                   help="CSV scope capture to measure (optional with --measure)")
+    a.add_argument("--measure", action="append", metavar="NAME=VALUE",
+                   help="a reading of an instrument, e.g. frequency=31.6k, duty=30.4%%, i_load=110m, t_mosfet_c=27 "
+                        "(repeatable; the accuracy can be added in the file)")
+    a.add_argument("--source", default=None, help="where hand readings come from (e.g. the instrument)")
     a.add_argument("--wiper", default=None, help="wiper position of the reading, 0–1 or a percentage (pot designs)")
     a.add_argument("--vcc", default=None, help="supply measured during the capture [V]")
     a.add_argument("--ambient", default=None, help="ambient temperature during the capture [°C]")

@@ -275,3 +275,23 @@ def test_dashboard_save_keeps_the_readings(tmp_path):
     after = load_design(path)
     assert after.bench == before.bench                     # the readings survive a save from the dashboard
     assert after.timing.c == 1.0e-9
+
+
+def test_bench_add_hand_readings_without_a_capture(built_file, capsys):
+    design_path, capture = built_file
+    code = main(["bench", "add", str(design_path), "--measure", "frequency=1.6k", "--measure", "duty=66.3%",
+                 "--vcc", "12", "--ambient", "25", "--source", "bench counter", "--no-check"])
+    assert code == 0, capsys.readouterr().err
+    (r,) = load_design(design_path).bench
+    assert r.value("frequency") == 1600.0 and r.value("duty") == pytest.approx(0.663) and r.source == "bench counter"
+    # with a capture, --measure adds what the scope does not see
+    assert main(["bench", "add", str(design_path), str(capture), "--measure", "i_load=12m", "--no-check"]) == 0
+    r2 = load_design(design_path).bench[1]
+    assert r2.value("i_load") == pytest.approx(0.012) and r2.value("frequency") is not None
+    capsys.readouterr()
+    assert main(["bench", "add", str(design_path), "--measure", "speed=3"]) == 2
+    assert "measured.speed: not a known measured quantity" in capsys.readouterr().err
+    assert main(["bench", "add", str(design_path)]) == 2
+    assert "nothing to add" in capsys.readouterr().err
+    assert main(["bench", "add", str(design_path), str(capture), "--measure", "frequency=1k"]) == 2
+    assert "given twice" in capsys.readouterr().err
