@@ -9,7 +9,7 @@ symbolic derivation is first needed, and ipywidgets/bokeh only by
 Layers (arrows only downwards):
 
 1. models — ``values``, ``eseries``, ``parts``, ``timing``, ``loads``;
-2. design — ``tolerance``, ``sensitivity``, ``synthesis``, ``checks``, ``design``, ``record``;
+2. design — ``tolerance``, ``sensitivity``, ``synthesis``, ``checks``, ``design``, ``record``, ``bench``;
 3. presentation — ``widgets``, ``plots``, ``report``, ``schematic``, ``cli``.
 """
 
@@ -39,6 +39,7 @@ _LAZY = {
     "evaluate",
     "cautions",
     "record",
+    "bench",
     "plots",
     "schematic",
     "widgets",

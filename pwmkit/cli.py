@@ -10,6 +10,9 @@ Subcommands:
     execute saved design notebooks again and report drift of their recorded key results.
 ``export DESIGN.toml --formulas/--bom/--report [FILE]``
     write the formula sheet, the bill of materials or the HTML report, inside ``--out-dir`` only.
+``bench add DESIGN.toml CAPTURE.csv`` / ``bench show DESIGN.toml``
+    keep bench readings and scope captures with a design file and compare them with the design
+    (:mod:`pwmkit.cli_bench`).
 ``find``, ``new NAME``
     ranked part sets for a target; a design file and record notebook of your own
     (:mod:`pwmkit.cli_design`).
@@ -376,6 +379,10 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--timeout", type=_positive_float, default=600.0, help="seconds one cell may run (headless)")
     p.add_argument("--source", default=None, help=argparse.SUPPRESS)  # tests: another notebooks folder
     p.set_defaults(handler=_lab)
+
+    from .cli_bench import register_bench
+
+    register_bench(sub)
 
     from .cli_design import add_commands  # find, new
 

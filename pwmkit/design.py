@@ -467,6 +467,8 @@ class Design:
     t_ambient_c : nominal ambient [°C]; t_ambient_min_c, t_ambient_max_c : range [°C]
     requirements : Requirements
     notes : free text for the design record
+    bench : bench readings of the built driver, tuple of :class:`pwmkit.bench.BenchReading`
+        (``[[bench]]`` in the design file; compared with the design by :func:`pwmkit.bench.reconcile`)
     """
 
     name: str = "design"
@@ -483,6 +485,7 @@ class Design:
     t_ambient_max_c: Any = 40.0
     requirements: Requirements = field(default_factory=Requirements)
     notes: str = ""
+    bench: tuple[Any, ...] = ()
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip() or len(self.name) > 200:
@@ -512,6 +515,31 @@ class Design:
                               f"use topology 'two-timer' (topology is {self.timing.topology!r})")
         if not isinstance(self.notes, str):
             raise DesignError("design.notes: expected text")
+        self._check_bench()
+
+    def _check_bench(self) -> None:
+        """Readings must be BenchReading objects.
+
+        A reading's wiper on a design without a pot is allowed here (a dashboard may switch the
+        topology while exploring; :func:`pwmkit.bench.reconcile_design` then ignores that wiper);
+        design files refuse it (:func:`pwmkit.bench.readings.check_conditions`).
+        """
+        if not self.bench:
+            object.__setattr__(self, "bench", ())
+            return
+        from .bench.readings import BenchReading
+
+        if not isinstance(self.bench, (tuple, list)):
+            raise DesignError(f"bench: expected a sequence of BenchReading, got {type(self.bench).__name__}")
+        object.__setattr__(self, "bench", tuple(self.bench))
+        for i, reading in enumerate(self.bench):
+            if not isinstance(reading, BenchReading):
+                raise DesignError(f"bench[{i}]: expected a BenchReading, got {type(reading).__name__}")
+            reading.check(i)
+
+    def with_reading(self, reading: Any) -> Design:
+        """A copy with one more bench reading (a :class:`pwmkit.bench.BenchReading`) at the end."""
+        return dataclasses.replace(self, bench=(*self.bench, reading))
 
     # -- convenience -------------------------------------------------------------------------
     @property
@@ -556,8 +584,11 @@ class Design:
         return dataclasses.replace(self, timing=dataclasses.replace(self.timing, **changes))
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain nested dict (JSON/TOML-ready; None values kept)."""
-        return dataclasses.asdict(self)
+        """Plain nested dict (JSON/TOML-ready; None values kept; ``bench`` only when there are readings)."""
+        out = dataclasses.asdict(self)
+        if not self.bench:
+            out.pop("bench")
+        return out
 
     def _repr_html_(self) -> str:
         """Notebook display: the part values and the annotated schematic.

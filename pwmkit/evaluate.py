@@ -294,6 +294,8 @@ class Evaluation:
         ``spread.duty_p01|p50|p99``, ``spread.frequency_std|n_failed|yield``;
         ``worst_case.frequency_min|frequency_max|duty_min|duty_max``;
         ``sensitivity.frequency.<parameter>`` (∂ln f/∂ln x), ``sensitivity.frequency_rel_std``;
+        ``bench.readings|inside|percentile_frequency|percentile_duty|culprit``, ``bench.estimate.<part>``
+        (designs with bench readings, full mode; :func:`pwmkit.bench.reconcile_design`);
         ``requirements.frequency_low|frequency_high|duty_low|duty_high|frequency_yield|duty_yield``;
         ``findings.fail_count|warn_count|worst``.
         """
@@ -373,6 +375,22 @@ class Evaluation:
             if hp.loop_spread is not None:
                 put("heater.loop_t_min_c", hp.loop_spread[0])
                 put("heater.loop_t_max_c", hp.loop_spread[1])
+        if self.design.bench and self.spread is not None:  # bench readings against the design
+            from .bench.reconciliation import reconcile_design
+
+            try:
+                rec = reconcile_design(self.design, n=max(int(self.spread.n), 1000), seed=int(self.spread.seed or 0))
+            except DesignError:  # the bench.match finding says why
+                rec = None
+            if rec is not None:
+                put("bench.readings", float(len(rec.readings)))
+                put("bench.inside", 1.0 if rec.inside else 0.0)
+                for q, p in rec.percentile.items():
+                    put(f"bench.percentile_{q}", p)
+                put("bench.culprit", rec.culprit)
+                for part in ("c", "ra", "rb", "pot", "vd", "timer"):
+                    if part in rec.estimates:
+                        put(f"bench.estimate.{part}", rec.estimates[part])
         rs = self.requirement_spread
         if rs is not None:
             group("requirements", rs, "frequency_low frequency_high duty_low duty_high")

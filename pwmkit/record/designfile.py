@@ -67,7 +67,7 @@ _SECTIONS: dict[str, Any] = {
 }
 _LOADS: dict[str, Any] = {"led": LedLoad, "motor": MotorLoad, "heater": HeaterLoad}
 _SECTION_ORDER = ("design", "requirements", "timing", "load", "switch", "freewheel")
-_TOP_KEYS = ("format", "version", *_SECTION_ORDER)
+_TOP_KEYS = ("format", "version", *_SECTION_ORDER, "bench")
 
 #: Numeric fields that accept ``"none"`` although their default is a value.
 _NULLABLE_EXTRA = {"timing.cv_bypass"}
@@ -130,7 +130,7 @@ def _fields_of(cls: Any, section: str, skip: tuple[str, ...] = ()) -> dict[str, 
     return out
 
 
-_SUBOBJECTS = ("timing", "load", "switch", "freewheel", "requirements")
+_SUBOBJECTS = ("timing", "load", "switch", "freewheel", "requirements", "bench")
 
 
 def section_fields(section: str, kind: str | None = None) -> dict[str, _Field]:
@@ -254,6 +254,10 @@ def design_to_toml(design: Design) -> str:
         _emit_section(lines, "load", design.load, section_fields("load", design.load.kind))
     _emit_section(lines, "switch", design.switch, section_fields("switch"))
     _emit_section(lines, "freewheel", design.freewheel, section_fields("freewheel"))
+    if design.bench:  # [[bench]] readings of the built driver (pwmkit.bench.readings)
+        from ..bench.readings import readings_to_toml
+
+        lines += ["# bench readings of the built driver", readings_to_toml(design.bench)]
     return "\n".join(lines)
 
 
@@ -364,6 +368,8 @@ def _field_message(msg: str, section: str) -> str:
         if msg.startswith(prefix):
             return repl + msg[len(prefix):]
     head = msg.split(":", 1)[0]
+    if head.startswith("bench"):  # bench readings carry their own path, e.g. bench[2].conditions.vcc
+        return msg
     if "." in head and head.split(".", 1)[0] in _SECTION_ORDER:
         return msg
     return f"{section}: {msg}"
@@ -452,11 +458,19 @@ def _from_data(data: dict[str, Any]) -> Design:
         if key not in fields:
             raise _unknown("design", key, fields)
         kwargs[key] = _convert(f"design.{key}", fields[key], value)
+    if "bench" in data:
+        from ..bench.readings import readings_from_data
+
+        kwargs["bench"] = readings_from_data(data["bench"])
     try:
         design = Design(**kwargs, **sections)
     except DesignError as exc:
         raise DesignError(_field_message(str(exc), "design")) from None
     _check_names(design)
+    if design.bench:
+        from ..bench.readings import check_conditions
+
+        check_conditions(design)
     return design
 
 

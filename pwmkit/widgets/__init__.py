@@ -24,7 +24,8 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`RequirementsPanel`, :class:`PartsPanel` — requirements and criterion; dielectric, tolerances, series;
 - :class:`CandidatesPanel` — ranked part sets for the requirements (non-blocking search), "use this set";
 - :class:`ConditionsPanel` — frequency and duty against supply and ambient;
-- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes".
+- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes";
+- :class:`AsBuiltPanel` — bench readings against the design ("As built" tab for designs with readings).
 
 ``dashboard("my-driver.toml")`` opens a design file; Save writes the edits back to it.
 
@@ -60,6 +61,7 @@ _EXPORTS = {
     "TwoTimerPanel": "two_timer",
     "ControlHeaterPanel": "two_timer",
     "TwoTimerCandidatesPanel": "two_timer",
+    "AsBuiltPanel": "bench",
     "RequirementsPanel": "requirements",
     "PartsPanel": "requirements",
     "CandidatesPanel": "candidates",
