@@ -232,6 +232,12 @@ def _export(args: argparse.Namespace) -> int:
 # ------------------------------------------------------------------------------------------------
 # lab
 # ------------------------------------------------------------------------------------------------
+def _note_root(cmd: list[str]) -> None:
+    """Say so when JupyterLab is started with ``--allow-root`` (the effective user is root)."""
+    if "--allow-root" in cmd:
+        _progress("pwmkit lab: running as root, so JupyterLab gets --allow-root (it refuses root otherwise)")
+
+
 def _lab(args: argparse.Namespace) -> int:
     import subprocess
 
@@ -249,6 +255,7 @@ def _lab(args: argparse.Namespace) -> int:
     headless = args.headless if args.headless is not None else not nbs.display_available()
     if not headless:
         cmd = nbs.lab_command(folder.resolve())
+        _note_root(cmd)
         _progress("pwmkit lab: starting JupyterLab (stop it with Ctrl-C): " + " ".join(cmd))
         try:
             return subprocess.call(cmd)
