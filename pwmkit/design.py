@@ -387,15 +387,14 @@ class Design:
         return dataclasses.asdict(self)
 
     def _repr_html_(self) -> str:
-        """Notebook display: the part values and the annotated schematic.
+        """Notebook display: the part values, then what the presentation layer registered.
 
-        The schematic comes from :func:`pwmkit.schematic.for_design`, imported only here (a
-        display hook; the design layer does not otherwise depend on the drawing). If it cannot
-        be drawn (schemdraw missing, or a timing that does not oscillate) the table is shown
-        with a one-line note instead.
+        :mod:`pwmkit.schematic` registers the annotated schematic (see :mod:`pwmkit._display`), so
+        this design layer imports no drawing code; without it the table is shown alone.
         """
         import html
 
+        from ._display import extra_html
         from .values import format_value
 
         t = self.timing
@@ -408,14 +407,8 @@ class Design:
             rows.append(("load", self.load.kind))
         body = "".join(f"<tr><th style='text-align:left;padding-right:1em'>{html.escape(k)}</th>"
                        f"<td>{html.escape(v)}</td></tr>" for k, v in rows)
-        try:
-            from .schematic import for_design
-
-            drawing = for_design(self).svg
-        except (DesignError, ImportError) as exc:
-            drawing = f"<p><em>schematic not drawn: {html.escape(str(exc))}</em></p>"
         return (f"<div class='pwmkit-design'><strong>{html.escape(self.name)}</strong>"
-                f"<table>{body}</table>{drawing}</div>")
+                f"<table>{body}</table>{extra_html('design', self)}</div>")
 
 
 def demo_designs() -> dict[str, Design]:
