@@ -334,12 +334,15 @@ def _convert(path: str, fd: _Field, value: Any) -> Any:
         try:
             if path.endswith("_tolerance"):
                 return parse_tolerance(value)
-            if UNITS.get(path) == "%" and value.strip().endswith("%"):
-                return parse_value(value.strip()[:-1]) / 100.0
-            return parse_value(value)
+            unit = UNITS.get(path)
+            number = parse_value(value, unit if unit is not None else "", name=path)
         except DesignError as exc:
             extra = '; "none" leaves it out' if fd.nullable else ""
-            raise DesignError(f"{path}: {exc}{extra}") from None
+            msg = str(exc)
+            raise DesignError(f"{msg if msg.startswith(path) else f'{path}: {msg}'}{extra}") from None
+        if UNITS.get(path) == "%" and value.strip().endswith("%") and not 0.0 <= number <= 1.0:
+            raise DesignError(f"{path}: {value.strip()!r} is out of range; allowed 0 % … 100 %")
+        return number
     try:
         number = float(value)
     except OverflowError:

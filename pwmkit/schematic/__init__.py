@@ -25,7 +25,6 @@ from .parts import PartLabel, Schematic
 from .style import DEFAULT_STYLE, SchematicStyle
 
 
-
 def _design_schematic_html(design: object) -> str:
     """The design's annotated schematic for its rich display (a one-line note when it cannot be drawn)."""
     import html
