@@ -9,6 +9,12 @@ Generated with sympy 1.14.0.
 from numpy import log
 
 
+def crossing_time(r, c, v_inf, v_0, v_1):
+    """Time for an RC node heading from v_0 toward v_inf to reach v_1 [s] (array-safe, no branches)."""
+    t = c*r*log((v_0 - v_inf)/(v_1 - v_inf))
+    return (t,)
+
+
 def timing_classic_general(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl):
     """(t_high, t_low) of the 'classic' topology, 'general' discharge model, external control [s]."""
     _x0 = -vctl
@@ -351,6 +357,12 @@ def partials_pot(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl):
     dt_low_dr_on = _x16*_x19*c*(_x26 + ra) - _x27 - _x33*(-_x15*(-_x29 - vcc) - _x32*(-_x2 - _x30))
     dt_low_dvctl = -_x33*(-_x15*_x18 - _x18*_x32)
     return (t_high, t_low, dt_high_dra, dt_high_drb, dt_high_dpot, dt_high_dwiper, dt_high_dc, dt_high_dvcc, dt_high_dvd, dt_high_dvsat, dt_high_dr_on, dt_high_dvctl, dt_low_dra, dt_low_drb, dt_low_dpot, dt_low_dwiper, dt_low_dc, dt_low_dvcc, dt_low_dvd, dt_low_dvsat, dt_low_dr_on, dt_low_dvctl,)
+
+
+#: kind → f(r, c, v_inf, v_0, v_1) -> (t,): the first-order threshold-crossing law
+CROSSING = {
+    'rc': crossing_time,
+}
 
 
 #: (topology, discharge) → f(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl) -> (t_high, t_low)

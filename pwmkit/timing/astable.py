@@ -246,8 +246,9 @@ def _check_shapes(q: dict[str, Any]) -> None:
                           "of one shape (or shapes numpy can broadcast, such as (n,) with (m, 1)) or scalars") from None
 
 
-def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
-    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+def _check_oscillates(topology: str, q: dict[str, Any], p: Any, v_lower: Any = None) -> None:
+    v_upper = q["vctl"]
+    v_lower = q["vctl"] / 2.0 if v_lower is None else v_lower
     if not np.all(p.v_charge > v_upper):
         bad = np.logical_not(p.v_charge > v_upper)
         vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
@@ -266,7 +267,7 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
             + f"), which cannot fall to the lower threshold {vl:.4g} V; the output latches low. "
             "Raise vcc or vctl, or lower the discharge-path drops"
         )
-    if not np.all(p.r_discharge > 0):
+    if not np.min(p.r_discharge) > 0:
         raise DesignError(
             "rb: the discharge path resistance is 0 Ω (rb = 0 with the wiper at the discharge end and an "
             "ideal discharge switch): the discharge pin would short the capacitor. Add an end resistor rb > 0"
@@ -355,17 +356,17 @@ def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = Non
 
 def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
     """:func:`astable` on values already read and checked by :func:`_inputs` (no re-validation)."""
-    from ._derived import TIMING
+    from ._derived import crossing_time
 
     p = paths(topology, ra=q["ra"], rb=q["rb"], pot=q["pot"], wiper=q["wiper"], vcc=q["vcc"], vd=q["vd"],
               vsat=q["vsat"], r_on=q["r_on"])
-    _check_oscillates(topology, q, p)
-    r_on0 = np.ndim(q["r_on"]) == 0 and q["r_on"] == 0
-    vsat0 = np.ndim(q["vsat"]) == 0 and q["vsat"] == 0
-    fn = TIMING[(topology, "saturation" if r_on0 else "resistance" if vsat0 else "general")]
+    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+    _check_oscillates(topology, q, p, v_lower)
+    # each half-period is the sympy-solved crossing law on the topology's path: the closed forms of
+    # symbolic.expressions() are exactly this composition (tests compare them)
     with np.errstate(all="ignore"):
-        t_high, t_low = fn(q["ra"], q["rb"], q["pot"], q["wiper"], q["c"], q["vcc"], q["vd"], q["vsat"],
-                           q["r_on"], q["vctl"])
+        (t_high,) = crossing_time(p.r_charge, q["c"], p.v_charge, v_lower, v_upper)
+        (t_low,) = crossing_time(p.r_discharge, q["c"], p.v_discharge, v_upper, v_lower)
     shape = np.broadcast_shapes(*(np.shape(v) for k, v in q.items() if k != "timer"))
     # t_high, t_low >= 0 by construction, so finite half-periods whose smallest sum is well above zero
     # make period, frequency and duty finite too (four reductions, no temporary arrays)
@@ -377,7 +378,7 @@ def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
     fam = q["timer"]
     return AstableResult(
         topology=topology, timer=fam.name, t_high=_readonly(t_high, shape), t_low=_readonly(t_low, shape),
-        v_upper=_readonly(q["vctl"], shape), v_lower=_readonly(q["vctl"] / 2.0, shape),
+        v_upper=_readonly(q["vctl"], shape), v_lower=_readonly(v_lower, shape),
         v_charge=_readonly(p.v_charge, shape), v_discharge=_readonly(p.v_discharge, shape),
         r_charge=_readonly(p.r_charge, shape), r_discharge=_readonly(p.r_discharge, shape),
         c=_readonly(q["c"], shape), vcc=_readonly(q["vcc"], shape),

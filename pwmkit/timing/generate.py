@@ -44,6 +44,7 @@ class Form:
     args : argument names
     build : ``build() -> [(output name, sympy expression in symbols named like args), …]``
     doc : one line for the function's docstring
+    cse : share common subexpressions (off for short forms, where it only adds temporaries)
     """
 
     group: str
@@ -52,6 +53,7 @@ class Form:
     args: tuple[str, ...]
     build: Callable[[], list[tuple[str, Any]]]
     doc: str
+    cse: bool = True
 
 
 def _timing_symbols(e: Any) -> dict[Any, Any]:
@@ -69,6 +71,17 @@ def _timing(topology: str, discharge: str) -> Callable[[], list[tuple[str, Any]]
         return [("t_high", e.t_high.xreplace(names)), ("t_low", e.t_low.xreplace(names))]
 
     return build
+
+
+def _crossing() -> list[tuple[str, Any]]:
+    import sympy as sp
+
+    from .symbolic import crossing_time
+
+    law, (r, c, v_inf, v0, v1) = crossing_time()
+    names = {r: sp.Symbol("r"), c: sp.Symbol("c"), v_inf: sp.Symbol("v_inf"), v0: sp.Symbol("v_0"),
+             v1: sp.Symbol("v_1")}
+    return [("t", law.xreplace(names))]
 
 
 def _partials(topology: str) -> Callable[[], list[tuple[str, Any]]]:
@@ -94,6 +107,9 @@ _DISCHARGES = ("general", "saturation", "resistance")
 
 #: Every generated function, in module order.
 FORMS: list[Form] = [
+    Form("CROSSING", "rc", "crossing_time", ("r", "c", "v_inf", "v_0", "v_1"), _crossing,
+         "Time for an RC node heading from v_0 toward v_inf to reach v_1 [s] (array-safe, no branches).",
+         cse=False),
     *(Form("TIMING", (t, d), f"timing_{t}_{d}", TIMING_ARGS, _timing(t, d),
            f"(t_high, t_low) of the {t!r} topology, {d!r} discharge model, external control [s].")
       for t in _TOPOLOGIES for d in _DISCHARGES),
@@ -105,6 +121,7 @@ FORMS: list[Form] = [
 
 #: Group name → one line describing the dictionary in the generated module.
 GROUPS: dict[str, str] = {
+    "CROSSING": "kind → f(r, c, v_inf, v_0, v_1) -> (t,): the first-order threshold-crossing law",
     "TIMING": "(topology, discharge) → f(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl) -> (t_high, t_low)",
     "PARTIALS": "topology → f(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl) -> (t_high, t_low, ∂t_high…, ∂t_low…)",
 }
@@ -128,7 +145,8 @@ def _render_form(form: Form) -> str:
 
     outputs = form.build()
     printer = NumPyPrinter({"fully_qualified_modules": False, "inline": True, "allow_unknown_functions": False})
-    reps, reduced = sp.cse([expr for _, expr in outputs], symbols=sp.numbered_symbols("_x"), order="canonical")
+    exprs = [expr for _, expr in outputs]
+    reps, reduced = sp.cse(exprs, symbols=sp.numbered_symbols("_x"), order="canonical") if form.cse else ([], exprs)
     lines = [f"def {form.name}({', '.join(form.args)}):", f'    """{form.doc}"""']
     for sym, expr in reps:
         lines.append(f"    {sym} = {printer.doprint(expr)}")

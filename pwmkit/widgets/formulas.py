@@ -59,7 +59,10 @@ class FormulasPanel(Panel):
         self.quantity.observe(lambda _c: self._refresh_now(), names="value")
         self.format.observe(lambda _c: self._refresh_now(), names="value")
         self.session.subscribe(self.follow)
-        self._refresh_now()
+        # The first sheet needs the sympy derivation (about a second in a new process): inside a
+        # kernel it is scheduled like every later refresh, so the dashboard shows at once.
+        self.math.value = "<em>deriving the formulas…</em>"
+        self._debounced()
 
     def refresh(self, evaluation: Any) -> None:
         """Schedule a refresh (debounced)."""
