@@ -18,7 +18,7 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import DesignError
+from ..errors import DesignError, ModelLimit
 from ..parts.timers import TimerFamily, get_timer
 from ..ranges import checked
 from .paths import TOPOLOGIES, paths
@@ -253,7 +253,7 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any, v_lower: Any = N
         bad = np.logical_not(p.v_charge > v_upper)
         vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
         what = f"supply {vcc:.4g} V" if topology == "classic" else f"supply {vcc:.4g} V minus diode drop {vd:.4g} V"
-        raise DesignError(
+        raise ModelLimit(
             f"vcc: {what} = {vch:.4g} V cannot reach the upper threshold {vu:.4g} V; the capacitor stalls "
             f"below it and the output latches high. Raise vcc or lower vctl"
             + ("" if topology == "classic" else " (or use a lower-drop diode)")
@@ -261,14 +261,14 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any, v_lower: Any = N
     if not np.all(p.v_discharge < v_lower):
         bad = np.logical_not(p.v_discharge < v_lower)
         vdis, vl = _first_bad(bad, p.v_discharge, v_lower)
-        raise DesignError(
+        raise ModelLimit(
             f"vcc: the discharge path heads for {vdis:.4g} V (switch saturation/on-resistance"
             + ("" if topology in ("classic", "bypass") else " plus diode drop")
             + f"), which cannot fall to the lower threshold {vl:.4g} V; the output latches low. "
             "Raise vcc or vctl, or lower the discharge-path drops"
         )
     if not np.min(p.r_discharge) > 0:
-        raise DesignError(
+        raise ModelLimit(
             "rb: the discharge path resistance is 0 Ω (rb = 0 with the wiper at the discharge end and an "
             "ideal discharge switch): the discharge pin would short the capacitor. Add an end resistor rb > 0"
         )
@@ -373,7 +373,7 @@ def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
     lows = float(np.min(t_high)) + float(np.min(t_low)) if np.size(t_high) and np.size(t_low) else 1.0
     highs = float(np.max(t_high)) + float(np.max(t_low)) if np.size(t_high) and np.size(t_low) else 1.0
     if not (math.isfinite(highs) and lows > 1e-300):
-        raise DesignError("timing: the design gives a non-finite period (component values too extreme for "
+        raise ModelLimit("timing: the design gives a non-finite period (component values too extreme for "
                           "double precision); check the orders of magnitude of ra, rb, pot and c")
     fam = q["timer"]
     return AstableResult(
