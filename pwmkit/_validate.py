@@ -86,6 +86,9 @@ def quantity(
 
                 value = [parse_value(v, unit, name=name) if isinstance(v, str) else v for v in value]
             raw = np.asarray(value)
+            if isinstance(value, (list, tuple)) and raw.dtype.kind not in "bc":  # [True, 1.0] becomes floats
+                if any(isinstance(v, (bool, np.bool_)) for v in np.asarray(value, dtype=object).ravel()):
+                    raw = np.asarray(value, dtype=object)
             if raw.dtype.kind in "bc" or raw.dtype == object and any(isinstance(v, (bool, np.bool_)) for v in raw.flat):
                 what = "true/false values" if raw.dtype.kind in "bO" else "complex numbers"
                 raise DesignError(f"{name}: {_describe(value)} holds {what}; give numbers in {unit or 'SI units'}")

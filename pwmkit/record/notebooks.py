@@ -124,9 +124,24 @@ def read_notebook(path: str | os.PathLike[str]) -> Any:
     p = Path(path)
     data = read_limited(p, limit=_MAX_NOTEBOOK_BYTES, what="notebook")
     try:
-        return nbformat.reads(data.decode("utf-8"), as_version=4)
+        text = data.decode("utf-8")
     except UnicodeDecodeError:
         raise DesignError(f"{p}: not UTF-8 text; a notebook is a JSON text file") from None
+    import json
+
+    try:
+        doc = json.loads(text)
+    except ValueError as exc:
+        raise DesignError(f"{p}: not a readable notebook (not JSON: {_first_line(exc)})") from None
+    except RecursionError:
+        raise DesignError(f"{p}: not a readable notebook (JSON nested too deeply)") from None
+    if not isinstance(doc, dict) or not isinstance(doc.get("cells"), list):
+        got = {list: "a JSON list", str: "a JSON string", dict: "a JSON object without a 'cells' list"}.get(
+            type(doc), f"a JSON {type(doc).__name__}")
+        raise DesignError(f"{p}: not a notebook; expected a JSON object with 'cells' and 'metadata' (nbformat 4), "
+                          f"got {got}")
+    try:
+        return nbformat.reads(text, as_version=4)
     except Exception as exc:  # nbformat raises several kinds (JSON, validation, version)
         raise DesignError(f"{p}: not a readable notebook ({type(exc).__name__}: {_first_line(exc)})") from None
 
