@@ -207,12 +207,14 @@ def _cell_error(nb: Any) -> str | None:
 
 
 def notebook_html(nb: Any) -> str:
-    """The notebook as one HTML page (nbconvert's HTML exporter, widget state kept)."""
-    from nbconvert import HTMLExporter
+    """The notebook as one self-contained HTML page that needs no network.
 
-    exporter = HTMLExporter(template_name="lab")
-    body, _ = exporter.from_notebook_node(nb)
-    return body
+    Plots, a static snapshot of the widgets and the formulas (as MathML) are in the page itself;
+    see :func:`pwmkit.record.offline_html.offline_notebook_html`.
+    """
+    from .offline_html import offline_notebook_html
+
+    return offline_notebook_html(nb)
 
 
 def display_available() -> bool:

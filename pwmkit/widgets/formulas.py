@@ -78,5 +78,13 @@ class FormulasPanel(Panel):
         self.clear_message()
 
     def flush(self) -> None:
-        """Refresh now if a refresh is pending."""
-        self._debounced.flush()
+        """Refresh now if a refresh is pending, else send the drawn sheet again.
+
+        Sending again matters for a notebook run headless: a sheet drawn by the scheduler between
+        two cells is not recorded in the saved widget state, one sent from a cell is.
+        """
+        if self._debounced.pending:
+            self._debounced.flush()
+        else:
+            self.math.send_state()
+            self.text.send_state()
