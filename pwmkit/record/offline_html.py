@@ -209,6 +209,8 @@ def _short_number(value: Any) -> str:
 _REMOTE_SCRIPT_RE = re.compile(r"<script\b[^>]*\bsrc\s*=\s*[\"']?(?:https?:)?//[^>]*>\s*</script>", re.I)
 _REMOTE_LINK_RE = re.compile(r"<link\b[^>]*\bhref\s*=\s*[\"']?(?:https?:)?//[^>]*>", re.I)
 _MATHJAX_CONFIG_RE = re.compile(r"<script type=\"text/x-mathjax-config\">.*?</script>", re.S)
+# inline module scripts that import code from a CDN when needed (nbconvert's Mermaid loader)
+_REMOTE_IMPORT_RE = re.compile(r"<script type=\"module\">(?:(?!</script>).)*?import\(\s*[\"']https?://.*?</script>", re.S)
 
 
 def _bokeh_js() -> str:
@@ -271,5 +273,6 @@ def offline_notebook_html(nb: Any) -> str:
     body = _REMOTE_SCRIPT_RE.sub("", body)
     body = _REMOTE_LINK_RE.sub("", body)
     body = _MATHJAX_CONFIG_RE.sub("", body)
+    body = _REMOTE_IMPORT_RE.sub("", body)
     head = _CSS + (_bokeh_js() if snap.bokeh else "")
     return body.replace("</head>", head + "\n</head>", 1) if "</head>" in body else head + body
