@@ -92,7 +92,7 @@ def test_readme_setup_command_works_in_a_fresh_clone_with_debians_python(tmp_pat
 def test_wheel_carries_notebooks_and_runs_lab_headless(tmp_path: Path) -> None:
     env = _headless_env(tmp_path)
     dist = tmp_path / "dist"
-    build = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(dist), str(REPO)],
+    build = subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-v", "-w", str(dist), str(REPO)],
                            env=env, capture_output=True, text=True, timeout=600)
     assert build.returncode == 0, build.stderr[-3000:]
     assert "deprecat" not in (build.stdout + build.stderr).lower()
