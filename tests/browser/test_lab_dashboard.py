@@ -112,13 +112,13 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     # 1b — how long one slider step takes to reach the readout and the plot data (printed, not asserted:
     # the suite holds no timed assertions; issue 12 aims at <= 150 ms and <= 300 ms)
     timings = []
-    for _ in range(5):
+    for step in range(6):  # left and right in turn: the wiper ends where it started
         page.wait_for_timeout(400)  # let the previous change settle
         text_before = duty.inner_text()
         data_before = page.evaluate(f"({READ_SOURCE})(['pwmkit-waveform', 'v_cap'])")
         handle.focus()
         start = page.evaluate("() => performance.now()")
-        page.keyboard.press("ArrowLeft")
+        page.keyboard.press("ArrowLeft" if step % 2 == 0 else "ArrowRight")
         page.wait_for_function(
             "(old) => { const el = document.querySelector(\".pwmkit-dashboard .pwmkit-readout td[data-q='duty']"
             "[data-kind='exact']\"); return el !== null && el.textContent !== old; }",
