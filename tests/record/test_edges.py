@@ -210,3 +210,16 @@ def test_exit_status_0_1_2_as_documented(tmp_path: Path, capsys: pytest.CaptureF
     assert main(["check", "--quick", str(path)]) == 1
     assert main(["check", str(tmp_path / "missing.toml")]) == 2
     capsys.readouterr()
+
+
+@pytest.mark.parametrize(("args", "match"), [
+    (["--frequency", "25 kF", "--duty", "30%", "--vcc", "12"], r"--frequency: value '25 kF' is given in F, but "
+                                                                r"--frequency takes Hz"),
+    (["--frequency", "25k", "--duty", "30%", "--vcc", "12 A"], r"--vcc: value '12 A' is given in A, but --vcc takes V"),
+])
+def test_the_command_line_checks_the_unit_of_each_option(args: list[str], match: str,
+                                                          capsys: pytest.CaptureFixture[str]) -> None:
+    import re
+
+    assert main(["find", *args, "--top", "1", "--samples", "200"]) == 2
+    assert re.search(match, capsys.readouterr().err)
