@@ -18,12 +18,12 @@ from __future__ import annotations
 import importlib
 from typing import Any
 
-from .errors import DesignError, DesignWarning
+from .errors import DesignError, DesignWarning, ModelLimit
 from .values import format_value, parse_value
 
 __version__ = "0.1.0"
 
-__all__ = ["DesignError", "DesignWarning", "parse_value", "format_value", "__version__"]
+__all__ = ["DesignError", "DesignWarning", "ModelLimit", "parse_value", "format_value", "__version__"]
 
 _LAZY = {
     "values",

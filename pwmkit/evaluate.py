@@ -31,7 +31,7 @@ from typing import Any
 
 import numpy as np
 
-from .errors import DesignError
+from .errors import DesignError, ModelLimit
 from .two_timer_design import circuit_words as _circuit_words
 
 __all__ = ["Evaluation", "PotTravel", "TimerOutput", "SupplyCorners", "LedCorners", "Conditions", "evaluate",
@@ -500,7 +500,7 @@ def _tolerance_part(design: Any, kw: dict[str, Any], n: int, seed: int) -> tuple
     for label, call in calls:
         try:
             results.append(call())
-        except DesignError as exc:
+        except ModelLimit as exc:  # only expected limits become notes; bad input surfaces
             results.append(None)
             notes.append(f"{label}: {exc}")
     mc = results[0]
@@ -532,7 +532,7 @@ def _pot_travel(topology: str, kw: dict[str, Any]) -> PotTravel:
             args = dict(kw, wiper=w)
             r = astable(topology, **args)
             ideal = astable_ideal(topology, ra=kw["ra"], rb=kw["rb"], c=kw["c"], vcc=kw["vcc"], pot=kw["pot"], wiper=w)
-        except DesignError:
+        except ModelLimit:
             if i == len(grids) - 1:
                 raise
             continue
@@ -554,7 +554,7 @@ def _corners(design: Any, kw: dict[str, Any], travel: PotTravel | None) -> Suppl
             args["vctl"] = control_voltage_from_divider(vcc, design.timing.r_cv, design.timing.timer)
         try:
             out.append(astable(design.timing.topology, **args))
-        except DesignError as exc:
+        except ModelLimit as exc:
             return SupplyCorners(lo, hi, None, None, f"at {vcc:.4g} V: {exc}")
     return SupplyCorners(lo, hi, out[0], out[1], None)
 
@@ -599,7 +599,7 @@ def _led_part(design: Any, timing: Any, gate: Any, p: dict[str, Any]) -> None:
     try:
         low = drive(lo) if lo != design.load_supply else p["led"]
         p["led_corners"] = LedCorners(low, high, None)
-    except DesignError as exc:
+    except ModelLimit as exc:
         p["led_corners"] = LedCorners(None, high, str(exc))
 
 
@@ -699,8 +699,8 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         raise DesignError(f"design: expected a pwmkit.design.Design, got {type(design).__name__}")
     if isinstance(n_mc, bool) or not isinstance(n_mc, (int, np.integer)) or not 100 <= n_mc <= 2_000_000:
         raise DesignError(f"n_mc: {n_mc!r} is not allowed; give a whole number 100 … 2000000")
-    if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)):
-        raise DesignError(f"seed: {seed!r} is not allowed; give a whole number")
+    if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)) or seed < 0:
+        raise DesignError(f"seed: {seed!r} is not allowed; give a whole number >= 0")
     want_diode_law = bool(spread) if diode_law is None else bool(diode_law)
     t = design.timing
     if t.topology == "two-timer":
@@ -713,7 +713,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         try:  # None when the textbook form is degenerate (rb = 0 at a wiper end)
             ideal = astable_ideal(t.topology, ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, pot=kw.get("pot"),
                                   wiper=kw.get("wiper"))
-        except DesignError:
+        except ModelLimit:
             ideal = None
         travel = _pot_travel(t.topology, kw) if t.topology == "pot" else None
         corners = _corners(design, kw, travel)
@@ -724,7 +724,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
             try:
                 gate = gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
                                   design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low)
-            except DesignError as exc:
+            except ModelLimit as exc:
                 gate_error = str(exc)
         p: dict[str, Any] = dict(led=None, led_corners=None, flicker=None, lightness=None, motor=None,
                                  motor_speed=None, motor_stall=None, motor_stall_diode=None, freewheel=None,

@@ -40,6 +40,7 @@ Importing this package imports ipywidgets; bokeh is imported when a plot panel i
 
 from __future__ import annotations
 
+from .. import schematic as _schematic  # noqa: F401 - registers the schematic in a Design's rich display
 from .._lazy import lazy_exports
 
 _EXPORTS = {
