@@ -50,8 +50,7 @@ def as_astable_result(p: Any, design: Any) -> Any:
     from .timing.monostable import discharge_resistance
 
     return AstableResult(
-        topology="two-timer", timer=p.timer, t_high=p.t_high, t_low=p.period - p.t_high, period=p.period,
-        frequency=p.frequency, duty=p.duty, v_upper=p.vctl, v_lower=p.v_start, v_charge=p.vcc,
+        topology="two-timer", timer=p.timer, t_high=p.t_high, t_low=p.period - p.t_high, v_upper=p.vctl, v_lower=p.v_start, v_charge=p.vcc,
         v_discharge=p.v_rest, r_charge=design.timing.r_mono, r_discharge=discharge_resistance(design.timing.timer),
         c=design.timing.c_mono, vcc=p.vcc,
     )
