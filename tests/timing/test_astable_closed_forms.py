@@ -1,11 +1,12 @@
 """Exact astable timing against outside references.
 
 Sources named beside each check:
-- scipy.integrate.solve_ivp (independent numeric oracle of the RC switching ODE);
+- scipy.integrate.solve_ivp + brentq integrating the node equations of the wired circuit built from the
+  component values (tests/timing/wired_circuit.py; independent of pwmkit's path and result fields);
 - sympy (high-precision evaluation of the derived expressions; dsolve as a second derivation route);
 - ln 2 ≈ 0.693 factor of the textbook astable formulas (common practice; 555-type timer data sheets'
   t = 0.693·R·C, typical published datasheet value, generic);
-- /work/shared/REFERENCES.md check values marked [C] (recomputed there from the formulas) — regression pins.
+- check values computed from the closed-form formulas (regression pins).
 """
 
 from __future__ import annotations
@@ -14,10 +15,11 @@ import math
 
 import numpy as np
 import pytest
-from scipy.integrate import solve_ivp
+from wired_circuit import Circuit, half_periods
 
 import pwmkit
 from pwmkit import DesignError
+from pwmkit.parts.timers import get_timer
 from pwmkit.timing import astable, astable_ideal, control_voltage_from_divider, paths
 
 TOPOLOGY_CASES = [
@@ -29,24 +31,16 @@ TOPOLOGY_CASES = [
 
 
 def _simulate(topology: str, **kw: float) -> tuple[float, float]:
-    """Integrate C·dv/dt = (V∞ − v)/R phase by phase with solve_ivp and threshold events (oracle)."""
-    r = astable(topology, **kw)
-    c = r.c
+    """Oracle: node equations of the wired circuit from the component values (tests/timing/wired_circuit.py).
 
-    def run(v0: float, v_inf: float, res: float, v_target: float) -> float:
-        def rhs(_t: float, y: np.ndarray) -> list[float]:
-            return [(v_inf - y[0]) / (res * c)]
-
-        def hit(_t: float, y: np.ndarray) -> float:
-            return y[0] - v_target
-
-        hit.terminal = True  # type: ignore[attr-defined]
-        sol = solve_ivp(rhs, (0.0, 50 * res * c), [v0], events=hit, rtol=1e-12, atol=1e-14, method="DOP853")
-        return float(sol.t_events[0][0])
-
-    t_high = run(r.v_lower, r.v_charge, r.r_charge, r.v_upper)
-    t_low = run(r.v_upper, r.v_discharge, r.r_discharge, r.v_lower)
-    return t_high, t_low
+    The discharge switch takes the timer family's published values (bipolar: vsat 0.1 V, no
+    resistance; CMOS: 14 Ω) unless given; nothing is read from the result under test.
+    """
+    fam = get_timer(kw.pop("timer", "bipolar"))
+    cir = Circuit(topology, ra=kw["ra"], rb=kw["rb"], c=kw["c"], vcc=kw["vcc"], pot=kw.get("pot", 0.0),
+                  wiper=kw.get("wiper", 0.0), vd=kw.get("vd", 0.0), vsat=kw.get("vsat", fam.vsat),
+                  r_on=kw.get("r_on", fam.r_discharge_on), vctl=kw.get("vctl"))
+    return half_periods(cir)
 
 
 @pytest.mark.parametrize("topology,extra", TOPOLOGY_CASES)
@@ -57,7 +51,7 @@ def test_closed_forms_match_scipy_ode_oracle(topology: str, extra: dict, timer: 
         kw["vd"] = 0.62
     r = astable(topology, **kw)
     t_high, t_low = _simulate(topology, **kw)
-    # scipy solve_ivp (DOP853, rtol 1e-12) integrates the same RC phases independently: <= 1e-6 relative
+    # scipy solve_ivp (DOP853, rtol 1e-11) on the wired circuit's node equations: <= 1e-6 relative
     assert r.t_high == pytest.approx(t_high, rel=1e-6)
     assert r.t_low == pytest.approx(t_low, rel=1e-6)
 
