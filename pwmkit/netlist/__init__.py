@@ -14,9 +14,9 @@ from .._lazy import lazy_exports
 
 _EXPORTS = {
     "netlist": "build",
-    "verify": "verify",
-    "Verification": "verify",
-    "CheckRow": "verify",
+    "verify": "crosscheck",
+    "Verification": "crosscheck",
+    "CheckRow": "crosscheck",
     "find_ngspice": "ngspice",
     "run_ngspice": "ngspice",
     "INSTALL_HINT": "ngspice",
@@ -28,5 +28,5 @@ _EXPORTS = {
 
 __all__ = sorted(_EXPORTS)
 
-__getattr__, __dir__ = lazy_exports(__name__, _EXPORTS, ("build", "verify", "ngspice", "elements", "simulate"),
+__getattr__, __dir__ = lazy_exports(__name__, _EXPORTS, ("build", "crosscheck", "ngspice", "elements", "simulate"),
                                     globals())

@@ -209,12 +209,25 @@ def timer_block(t: TimingNetwork, p: str = "", *, output: tuple[float, float, fl
     return lines
 
 
+#: Half-width of the MOSFET switch's smooth transition around the plateau voltage [V].
+FET_TRANSITION = 0.25
+
+
 def mosfet_block(p: str, *, gate_in: str, drain: str, r_gate: float, c_iss: float, v_on: float,
-                 rds_on: float) -> list[str]:
-    """Low-side MOSFET: gate RC (``r_gate`` into ``c_iss``) and a switch closing at ``v_on`` with ``rds_on``."""
-    return [resistor(f"{p}g", gate_in, f"{p}gate", r_gate), f"C{p}iss {p}gate 0 {fmt(c_iss)}",
-            f".model {p}SWFET sw(vt={fmt(v_on)} vh=0 ron={fmt(max(rds_on, IDEAL_SWITCH_R))} roff=1e9)",
-            f"S{p}fet {drain} 0 {p}gate 0 {p}SWFET"]
+                 rds_on: float, c_oss: float = 0.0) -> list[str]:
+    """Low-side MOSFET: gate RC (``r_gate`` into ``c_iss``) and a switch with ``rds_on``.
+
+    The channel goes from open (1 GΩ) to ``rds_on`` smoothly while the gate passes ``v_on ±``
+    :data:`FET_TRANSITION` (ngspice switch with negative hysteresis); ``c_oss`` from drain to
+    source. The Miller plateau itself is not modelled.
+    """
+    lines = [resistor(f"{p}g", gate_in, f"{p}gate", r_gate), f"C{p}iss {p}gate 0 {fmt(c_iss)}",
+             f".model {p}SWFET sw(vt={fmt(v_on)} vh={fmt(-FET_TRANSITION)} ron={fmt(max(rds_on, IDEAL_SWITCH_R))} "
+             "roff=1e9)",
+             f"S{p}fet {drain} 0 {p}gate 0 {p}SWFET"]
+    if c_oss > 0:
+        lines.append(f"C{p}oss {drain} 0 {fmt(c_oss)}")
+    return lines
 
 
 def motor_block(p: str, *, supply: str, drain: str, r: float, l: float, e: float,  # noqa: E741
@@ -251,11 +264,10 @@ def freewheel_block(p: str, *, drain: str, supply: str, family: Any = None, vf: 
 
     ``family`` gives a Shockley diode; ``vf`` instead gives its constant-drop equivalent. The
     Zener is an ideal breakdown at ``v_zener`` (an ideal diode in series with a source).
-    The clamp current is measured by ``V{p}fw`` (positive from drain to supply).
     """
-    lines = [diode_model(f"{p}DFW", family), f"V{p}fw {drain} {p}fw0 DC 0"]
+    lines = [diode_model(f"{p}DFW", family)]
     top = supply if v_zener is None else f"{p}fwz"
-    lines += _diode(f"{p}fw", f"{p}fw0", top, f"{p}DFW", None if family is not None else vf)
+    lines += _diode(f"{p}fw", drain, top, f"{p}DFW", None if family is not None else vf)
     if v_zener is not None:
         lines += [diode_model(f"{p}DZ")]
         lines += _diode(f"{p}z", top, supply, f"{p}DZ", v_zener)

@@ -32,10 +32,13 @@ from typing import Any
 from .elements import TimingNetwork, fmt, timer_block, timing_block
 from .ngspice import run_ngspice
 
-__all__ = ["TimingSim", "timing_deck", "simulate_timing", "network", "control_estimate", "step_limit", "OPTIONS"]
+__all__ = ["TimingSim", "timing_deck", "simulate_timing", "network", "control_estimate", "step_limit", "OPTIONS", "DRIVER_OPTIONS"]
 
-#: Simulator options of every deck.
+#: Simulator options of the timing decks.
 OPTIONS = "reltol=1e-6 abstol=1e-12 vntol=1e-6"
+#: Simulator options of the driver decks (amperes commutating between switch and freewheel
+#: diode: a tighter reltol stalls the time step at the edges).
+DRIVER_OPTIONS = "reltol=1e-4 abstol=1e-12 vntol=1e-6"
 
 
 @dataclass(frozen=True)
