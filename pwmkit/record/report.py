@@ -342,6 +342,11 @@ def report_html(design: Design, evaluation: Any = None) -> str:
         ("formulas", "Timing formulas with this design's numbers", _formulas(design)),
         ("cautions", "Cautions", _cautions(evaluation)),
     ]
+    from .report_crosscheck import crosscheck_section
+
+    crosscheck = crosscheck_section(design)  # only where ngspice is installed
+    if crosscheck is not None:
+        sections.insert(-1, ("crosscheck", "Cross-check with a circuit simulation (ngspice)", crosscheck))
     body = "".join(f"<section id='{sid}'><h2>{_e(title)}</h2>{content}</section>" for sid, title, content in sections)
     return (
         "<!DOCTYPE html>\n<html lang='en'><head><meta charset='utf-8'>"

@@ -89,6 +89,7 @@ class Dashboard(w.VBox):
     timing : TimingPanel; waveforms : WaveformPanel; pot_travel : PotTravelPanel;
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
+    crosscheck : CrossCheckBox or None (None where ngspice is not installed)
     tabs : ipywidgets.Tab
     """
 
@@ -117,7 +118,11 @@ class Dashboard(w.VBox):
         self.timing.layout.width = "560px"
         self.timing.layout.min_width = "560px"
         top = w.HBox([self.timing, self.waveforms], layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
-        super().__init__([self.header, self.cautions, top, self.tabs])
+        from .crosscheck import crosscheck_box
+
+        self.crosscheck = crosscheck_box(s)  # only where ngspice is installed
+        extra = [self.crosscheck] if self.crosscheck is not None else []
+        super().__init__([self.header, self.cautions, top, self.tabs, *extra])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")

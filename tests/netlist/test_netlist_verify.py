@@ -126,3 +126,31 @@ def test_cli_export_netlist(tmp_path: Path, capsys: pytest.CaptureFixture[str]) 
     assert main(["export", str(FAN), "--netlist", "fan.txt", "--out-dir", str(tmp_path)]) == 2
     assert "give a .cir" in capsys.readouterr().err
     assert main(["export", str(FAN), "--netlist", "--out-dir", str(tmp_path)]) == 2  # exists, no --force
+
+
+@needs_ngspice
+def test_report_has_a_crosscheck_section_where_ngspice_is_present(monkeypatch: pytest.MonkeyPatch) -> None:
+    from pwmkit.evaluate import evaluate
+    from pwmkit.record.report import report_html
+
+    fan = demo_designs()["fan"]
+    ev = evaluate(fan, spread=False)
+    page = report_html(fan, ev)
+    assert "<section id='crosscheck'>" in page and "model vs circuit (ngspice)" in page
+    monkeypatch.setenv("PWMKIT_NGSPICE", "/nonexistent/ngspice")
+    assert "<section id='crosscheck'>" not in report_html(fan, ev)
+
+
+@needs_ngspice
+def test_dashboard_crosscheck_button(monkeypatch: pytest.MonkeyPatch) -> None:
+    pytest.importorskip("ipywidgets")
+    from pwmkit.widgets.crosscheck import crosscheck_box
+    from pwmkit.widgets.session import DesignSession
+
+    session = DesignSession(demo_designs()["grow-bar"])
+    box = crosscheck_box(session)
+    assert box is not None
+    box.button.click()
+    assert "passes the cross-check" in box.result.value and "LED string current, peak" in box.result.value
+    monkeypatch.setenv("PWMKIT_NGSPICE", "/nonexistent/ngspice")
+    assert crosscheck_box(session) is None
