@@ -597,7 +597,7 @@ def _candidate(topology: str, idx: tuple[int, ...], r_vals: np.ndarray, pots: np
     elif diel == "X7R":
         notes.append("X7R timing capacitor: ±15 % over temperature plus DC-bias and ageing loss")
     if r.frequency > 0.1 * fam.f_max_practical:
-        notes.append("high frequency: the timer's internal delays (≈0.1–0.3 µs bipolar, from memory) "
+        notes.append("high frequency: the timer's internal delays (≈0.1–0.3 µs bipolar, typical value — check your part's data sheet) "
                      "lengthen each half-period; trim on the bench")
     resistors = [ra, rb]
     lines = len(set(resistors)) + 1 + (1 if topology == "pot" else 0) + (1 if topology != "classic" else 0)

@@ -17,7 +17,7 @@ from pwmkit.values import format_rkm, format_value, parse_tolerance, parse_value
 # parse_value: published IEC 60062 RKM examples
 # ---------------------------------------------------------------------------------------------------
 
-# published: IEC 60062:2016, RKM code examples (REFERENCES.md §3.4)
+# published: IEC 60062:2016, RKM code examples (IEC 60062:2016, letter and RKM codes)
 IEC_60062_RKM = [
     ("R47", 0.47),
     ("4R7", 4.7),
@@ -169,12 +169,12 @@ def test_parse_near_grammar_text_is_finite_or_design_error(text):
 # format_value
 # ---------------------------------------------------------------------------------------------------
 
-# SI prefixes: published, BIPM SI Brochure 9th ed. §3; values from the brief and REFERENCES.md §1.3 [C]
+# SI prefixes: published, BIPM SI Brochure 9th ed. §3; values from the brief and RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 (regression pin)
 FORMAT_CASES = [
     ((4700, "Ω"), "4.7 kΩ"),
     ((1e-7, "F"), "100 nF"),
     ((0.0022, "s"), "2.2 ms"),
-    ((480.898, "Hz"), "481 Hz"),  # REFERENCES.md §1.3 ideal frequency [C], 3 significant digits
+    ((480.898, "Hz"), "481 Hz"),  # RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 ideal frequency (regression pin), 3 significant digits
     ((0,), "0"),
     ((0, "Ω"), "0 Ω"),
     ((1.5e6, "Ω"), "1.5 MΩ"),

@@ -1,8 +1,8 @@
 """Tests of pwmkit.loads.flicker — percent modulation, flicker index, IEEE Std 1789-2015 regions.
 
-Sources: IEEE Std 1789-2015 recommended practices RP1/RP2 (coefficients from a secondary summary,
-consistent with memory of the standard's figure — REFERENCES §4); IES lighting definitions for
-flicker index and percent flicker. Check values tagged [C] are recomputed here.
+Sources: IEEE Std 1789-2015 recommended practices RP1/RP2 (coefficients from a secondary summary of the
+standard's figure, from memory; the primary text was not read); IES lighting definitions for
+flicker index and percent flicker. Check values tagged (regression pin) are recomputed here.
 """
 
 from __future__ import annotations
@@ -54,7 +54,7 @@ def _square_wave(duty: float, residual: float, n: int = 200_001) -> tuple[np.nda
 
 
 def test_flicker_ieee1789_boundaries():
-    # published: IEEE Std 1789-2015 RP1/RP2; check values [C] (REFERENCES §4)
+    # published: IEEE Std 1789-2015 RP1/RP2; check values (regression pin) (IEEE Std 1789-2015, recommended practices RP1/RP2, from memory)
     lim = ieee1789_limits(100.0)
     assert lim.low_risk_percent == pytest.approx(8.0, abs=5e-3)  # 0.08 × 100 Hz
     assert lim.no_effect_percent == pytest.approx(3.33, abs=5e-3)  # 0.0333 × 100 Hz
@@ -89,7 +89,7 @@ def test_flicker_ieee1789_no_restriction_is_none():
 
 
 def test_flicker_ieee1789_full_on_off_pwm():
-    # REFERENCES §4: full on/off PWM (Mod 100 %) is low-risk only above 1250 Hz and shows no
+    # IEEE Std 1789-2015, recommended practices RP1/RP2, from memory: full on/off PWM (Mod 100 %) is low-risk only above 1250 Hz and shows no
     # observable effect only above ~3 kHz (100/0.0333 = 3003 Hz; the RP2 band ends at 3000 Hz first)
     assert flicker_class(1250.0, 100.0) == "elevated"
     assert flicker_class(1250.01, 100.0) == "low-risk"
@@ -98,7 +98,7 @@ def test_flicker_ieee1789_full_on_off_pwm():
     assert 100.0 / 0.0333 == pytest.approx(3003.0, abs=0.5)
     assert frequency_for_region(100.0, "low-risk") == 1250.0
     assert frequency_for_region(100.0, "no-effect") == 3000.0
-    # the classic 555 astable of REFERENCES §1.3 (480.9 Hz) driving LEDs on/off is "elevated"
+    # the classic 555 astable of RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 (480.9 Hz) driving LEDs on/off is "elevated"
     assert pwm_flicker(480.898, 0.66667).classification == "elevated"
 
 
@@ -136,7 +136,7 @@ def test_frequency_for_region_is_the_threshold(mod, region):
 
 
 def test_frequency_for_region_examples():
-    # IEEE Std 1789-2015 slopes [C]: 20 % needs f > 20/0.0333 = 600.6 Hz for no observable effect;
+    # IEEE Std 1789-2015 slopes (regression pin): 20 % needs f > 20/0.0333 = 600.6 Hz for no observable effect;
     # 2 % is inside RP2 from the 90 Hz step on (0.0333·90 = 2.997 %); 0.5 % needs f > 50 Hz
     assert frequency_for_region(20.0) == pytest.approx(600.6006, rel=1e-6)
     assert frequency_for_region(2.0) == 90.0
@@ -168,7 +168,7 @@ def test_flicker_curves_vertices():
 
 def test_percent_modulation_definition():
     # IES lighting definitions / IEEE Std 1789-2015: Mod % = 100 (Lmax − Lmin)/(Lmax + Lmin)
-    assert percent_modulation(1.0, 0.2) == pytest.approx(66.667, abs=5e-4)  # REFERENCES §4 [C]
+    assert percent_modulation(1.0, 0.2) == pytest.approx(66.667, abs=5e-4)  # IEEE Std 1789-2015, recommended practices RP1/RP2, from memory (regression pin)
     assert percent_modulation(1.0, 0.0) == 100.0
     assert percent_modulation(3.0, 3.0) == 0.0
     assert percent_modulation(0.0, 0.0) == 0.0  # dark: nothing flickers (our convention)
@@ -180,7 +180,7 @@ def test_percent_modulation_definition():
 
 
 def test_flicker_index_pwm_reference_checks():
-    # REFERENCES §4 [C] (IES definition applied to a rectangular wave)
+    # IEEE Std 1789-2015, recommended practices RP1/RP2, from memory (regression pin) (IES definition applied to a rectangular wave)
     assert flicker_index_pwm(0.25) == pytest.approx(0.75, abs=5e-5)  # r = 0 → FI = 1 − D
     assert flicker_index_pwm(0.5, 0.2) == pytest.approx(0.3333, abs=5e-5)
     assert flicker_index_pwm(1.0) == 0.0 and flicker_index_pwm(0.3, 1.0) == 0.0  # steady light
@@ -199,7 +199,7 @@ def test_flicker_index_vs_numerical_integral(duty, residual):
 
 def test_sampled_oracle_reproduces_sine_result():
     # validates the numerical oracle itself: sinusoidal modulation depth m has FI = m/π
-    # (REFERENCES §4 [C]: m = 0.3 → 0.095493)
+    # (IEEE Std 1789-2015, recommended practices RP1/RP2, from memory (regression pin): m = 0.3 → 0.095493)
     t = np.linspace(0.0, 1.0, 200_001)
     _, fi = _sampled_metrics(1.0 + 0.3 * np.sin(2 * np.pi * t), t)
     assert fi == pytest.approx(0.3 / np.pi, abs=1e-6)
@@ -221,7 +221,7 @@ def test_flicker_index_vector_equals_scalar():
 
 def test_pwm_flicker_greenhouse_dimmer():
     # demo scenario (invented values): grow-bar dimmer from a 555 at 400 Hz, 30 % duty, plain switch.
-    # IEEE Std 1789-2015: at 400 Hz low-risk < 32 %, no-effect < 13.32 % [C]; FI = 1 − D (IES)
+    # IEEE Std 1789-2015: at 400 Hz low-risk < 32 %, no-effect < 13.32 % (regression pin); FI = 1 − D (IES)
     p = pwm_flicker(400.0, 0.3)
     assert p.modulation_percent == 100.0 and p.flicker_index == pytest.approx(0.7)
     assert p.low_risk_limit_percent == pytest.approx(32.0) and p.no_effect_limit_percent == pytest.approx(13.32)
@@ -235,7 +235,7 @@ def test_pwm_flicker_greenhouse_dimmer():
 
 
 def test_pwm_flicker_residual_and_steady_light():
-    # a 20 % residual (off/on) gives Mod 66.67 % (REFERENCES §4 [C]); at 100 Hz that is elevated
+    # a 20 % residual (off/on) gives Mod 66.67 % (IEEE Std 1789-2015, recommended practices RP1/RP2, from memory (regression pin)); at 100 Hz that is elevated
     p = pwm_flicker(100.0, 0.5, residual=0.2)
     assert p.modulation_percent == pytest.approx(66.667, abs=5e-4)
     assert p.frequency_for_no_effect == pytest.approx(66.6667 / 0.0333, rel=1e-5)

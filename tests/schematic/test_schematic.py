@@ -353,7 +353,7 @@ def _luminance(hex_colour: str) -> float:
 
 
 def _lightness(hex_colour: str) -> float:
-    # CIE 1976 L* (CIE 15:2018; /work/shared/REFERENCES.md §5) with Y/Yn = relative luminance
+    # CIE 1976 L* (CIE 15:2018; CIE 15:2018, CIE 1976 L*) with Y/Yn = relative luminance
     t = _luminance(hex_colour)
     return 116 * t ** (1 / 3) - 16 if t > 216 / 24389 else 24389 / 27 * t
 
@@ -366,7 +366,7 @@ def test_palette_contrast_wcag21_and_lightness_cie15() -> None:
         assert ratio >= 4.5, colour  # WCAG 2.1 SC 1.4.3 contrast (minimum) for normal text
     # the two path colours differ in lightness, so they stay apart without hue (any colour vision)
     assert abs(_lightness(st_.charge) - _lightness(st_.discharge)) >= 15
-    # check values of the L* formula itself (REFERENCES.md §5 [C]: Y/Yn = 0.18 -> L* = 49.496)
+    # check values of the L* formula itself (CIE 15:2018, CIE 1976 L* (regression pin): Y/Yn = 0.18 -> L* = 49.496)
     assert 116 * 0.18 ** (1 / 3) - 16 == pytest.approx(49.496, abs=5e-4)
 
 
