@@ -18,6 +18,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import DesignError
 from pwmkit.schematic import DEFAULT_STYLE, PartLabel, Schematic, SchematicStyle, draw
@@ -101,11 +102,13 @@ def test_strings_and_floats_draw_the_same() -> None:
     assert _draw("bypass").svg == draw("bypass", ra=4700.0, rb=10e3, c=100e-9, vcc=12.0).svg
 
 
+@reaching()
 @given(ra=st.floats(1.0, 1e7), rb=st.floats(0.0, 1e7), c=st.floats(1e-12, 1e-2),
        topology=st.sampled_from(TOPOLOGIES), wiper=st.floats(0.0, 1.0))
 @settings(max_examples=25, deadline=None)
 def test_property_any_valid_values_draw_and_label(ra: float, rb: float, c: float, topology: str,
                                                   wiper: float) -> None:
+    reached()  # no early return: every example reaches the assertions
     extra = {"pot": 1e5, "wiper": wiper} if topology == "pot" else {}
     sch = draw(topology, ra=ra, rb=rb, c=c, **extra)  # type: ignore[arg-type]
     ET.fromstring(sch.svg)
