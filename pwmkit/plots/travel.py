@@ -23,6 +23,7 @@ class PotTravelPlot:
     layout : bokeh row layout
     source : ColumnDataSource "pwmkit-pot-travel" (wiper, duty, duty_ideal, frequency, frequency_ideal)
     marker : ColumnDataSource "pwmkit-pot-marker" (wiper, duty, frequency)
+    windows : dict "duty", "frequency" of BoxAnnotation — the requirement (:meth:`show_requirements`)
     """
 
     def __init__(self, *, width: int = 430, height: int = 240) -> None:
@@ -44,7 +45,25 @@ class PotTravelPlot:
                         line_color="white", legend_label="wiper now")
             style_legend(fig, "top_left" if key == "duty" else "top_center")
         self.duty_figure, self.frequency_figure = duty, freq
+        from bokeh.models import BoxAnnotation
+
+        self.windows = {}
+        for fig, key in ((duty, "duty"), (freq, "frequency")):  # the requirement, hidden until set
+            box = BoxAnnotation(fill_color=TRACE["window"], fill_alpha=0.08, line_color=TRACE["window"],
+                                line_width=1.5, visible=False)
+            fig.add_layout(box)
+            self.windows[key] = box
         self.layout = row(duty, freq)
+
+    def show_requirements(self, frequency_window: Any = None, duty_range: Any = None) -> None:
+        """Draw the required frequency window and the duty range to reach (green boxes); None hides one."""
+        for key, window, scale in (("frequency", frequency_window, 1.0), ("duty", duty_range, 100.0)):
+            box = self.windows[key]
+            if window is None:
+                box.visible = False
+            else:
+                box.bottom, box.top = float(window[0]) * scale, float(window[1]) * scale
+                box.visible = True
 
     def update(self, travel: Any, timing: Any, wiper: float) -> None:
         """Show a :class:`pwmkit.evaluate.PotTravel` and mark the design's wiper and timing."""
