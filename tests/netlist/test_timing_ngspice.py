@@ -145,3 +145,23 @@ def test_circuit_that_does_not_oscillate_is_refused_by_the_model() -> None:
     # supply 2 V, CMOS, two 0.65 V steering drops: the discharge asymptote lies above vcc/3
     with pytest.raises(DesignError, match="cannot fall to the lower threshold"):
         astable("steered", ra=10e3, rb=10e3, c=1e-8, vcc=2.0, vd=0.65, timer="cmos", r_on=500.0)
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("topology, r_cv", [("classic", 10e3), ("steered", 47e3), ("pot", 22e3)])
+def test_control_pin_divider_matches_circuit(topology, r_cv) -> None:
+    # the circuit has the bipolar family's internal divider (3 × 5 kΩ) with r_cv to ground; the model takes
+    # the control voltage from control_voltage_from_divider (Thevenin of the same divider)
+    from pwmkit.timing import control_voltage_from_divider
+
+    kw = dict(ra=4.7e3, rb=22e3, vcc=12.0, vd=0.6, timer="bipolar")
+    if topology == "pot":
+        kw.update(pot=50e3, wiper=0.4)
+    vctl = control_voltage_from_divider(12.0, r_cv, "bipolar")
+    kw_model, model = _scaled(topology, dict(kw, vctl=vctl))
+    (sim,) = simulate_timing([network(topology, r_cv=r_cv, **{**kw, "c": kw_model["c"]})], t_period=T_PERIOD,
+                             t_fast=_fast(model))
+    # ngspice transient with the divider wired at the control pin (outside oracle): <= 1e-3
+    assert sim.frequency == pytest.approx(model.frequency, rel=1e-3)
+    assert sim.duty == pytest.approx(model.duty, abs=1e-3)
+    assert sim.v_cap_max == pytest.approx(vctl, rel=2e-3)
