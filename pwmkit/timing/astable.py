@@ -43,6 +43,9 @@ class AstableResult:
     r_charge, r_discharge : resistance of the charge and discharge paths [Ω]
     c : timing capacitance [F]
     vcc : supply [V]
+    v_charge_change : bypass topology only (else None): capacitor voltage where the diode across
+        ``rb`` stops conducting, clipped to the swing (``v_upper``: it conducts throughout) [V]
+    r_charge_after : bypass only (else None): charge resistance after that point, ``ra + rb`` [Ω]
     """
 
     topology: str
@@ -60,6 +63,8 @@ class AstableResult:
     r_discharge: Any
     c: Any
     vcc: Any
+    v_charge_change: Any = None
+    r_charge_after: Any = None
 
     def __repr__(self) -> str:
         if np.ndim(self.frequency) == 0:
@@ -369,6 +374,8 @@ def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = Non
         frequency=out(frequency), duty=out(duty), v_upper=out(q["vctl"]), v_lower=out(q["vctl"] / 2.0),
         v_charge=out(p.v_charge), v_discharge=out(p.v_discharge), r_charge=out(p.r_charge),
         r_discharge=out(p.r_discharge), c=out(q["c"]), vcc=out(q["vcc"]),
+        v_charge_change=None if topology != "bypass" else out(np.clip(_bypass_turn_off(q), q["vctl"] / 2.0, q["vctl"])),
+        r_charge_after=None if topology != "bypass" else out(q["ra"] + q["rb"]),
     )
 
 
