@@ -94,6 +94,7 @@ class Dashboard(w.VBox):
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
     crosscheck : CrossCheckBox or None (None where ngspice is not installed)
+    as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
     tabs : ipywidgets.Tab
     """
 
@@ -113,6 +114,11 @@ class Dashboard(w.VBox):
         self.findings = FindingsPanel(s)
         self.formulas = FormulasPanel(s, debounce=debounce)
         self.schematic = self._schematic_panel(s, debounce)
+        self.as_built = None
+        if s.design.bench:  # bench readings: the "as designed vs as built" tab (pwmkit.widgets.bench)
+            from .bench import AsBuiltPanel
+
+            self.as_built = AsBuiltPanel(s, debounce=max(debounce, 0.6))
         pages: list[tuple[str, w.Widget]] = [
             ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
             ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
@@ -122,6 +128,8 @@ class Dashboard(w.VBox):
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
         pages = pages + own
         self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
+        if self.as_built is not None:
+            pages.append(("As built", self.as_built))
         self.tabs = w.Tab(children=[p for _t, p in pages])
         self.tabs.titles = tuple(t for t, _p in pages)
         self.timing.layout.width = "560px"
@@ -210,7 +218,7 @@ class Dashboard(w.VBox):
 
     def flush(self) -> None:
         """Run debounced work (schematic, formulas, spread re-run) now."""
-        for panel in (self.schematic, self.formulas, self.spread):
+        for panel in (self.schematic, self.formulas, self.spread, self.as_built):
             if panel is not None:
                 panel.flush()
 

@@ -1,7 +1,7 @@
 """A value entry: engineering-notation text field + slider (log or linear) + optional E-series snap.
 
 The text field reads ``"4k7"``, ``"100n"``, ``"2.2 nF"`` … through :func:`pwmkit.values.parse_value`
-and applies on Enter or when it loses focus (``continuous_update=False``). The slider applies
+(a unit other than the field's own, such as ``"10 kF"`` for a resistor, is refused) and applies on Enter or when it loses focus (``continuous_update=False``). The slider applies
 while it is dragged; the ipywidgets front end keeps at most one update in flight and sends the
 latest position when the kernel is free, so a fast drag never queues stale work.
 """
@@ -165,9 +165,10 @@ class ValueEntry(w.HBox):
 
         try:
             try:
-                value = parse_value(str(change["new"]).strip())
+                value = parse_value(str(change["new"]).strip(), self.unit, name=self.name)  # "10 kF" for Ω: refused
             except DesignError as exc:
-                self._report(f"{self.name}: {exc}")
+                msg = str(exc)
+                self._report(msg if msg.startswith(self.name) else f"{self.name}: {msg}")
                 return
             self.submit(value)
         except Exception:  # never raise into the widget machinery

@@ -88,7 +88,8 @@ def test_text_entry_accepts_engineering_notation(pair):
     ("field", "text", "words"),
     [
         ("c", "10q", ["c:", "'10q'", "cannot be read"]),
-        ("ra", "-4k7", ["timing.ra", "-4700", "> 0"]),
+        ("ra", "-4k7", ["timing.ra", "-4700", "1 Ω ≤ timing.ra ≤ 1 GΩ"]),
+        ("ra", "10 kF", ["ra", "'10 kF'", "F", "takes Ω"]),
         ("vcc", "1.5", ["cannot reach the upper threshold"]),
         ("pot", "", ["pot:"]),
     ],
