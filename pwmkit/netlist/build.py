@@ -38,6 +38,11 @@ __all__ = ["netlist", "timing_network", "Deck", "deck"]
 
 What = Literal["timing", "driver"]
 
+#: Timing topologies :func:`netlist` can build.
+SUPPORTED_TOPOLOGIES = ("classic", "bypass", "steered", "pot")
+#: Load kinds a driver netlist can carry.
+SUPPORTED_LOADS = ("led", "motor")
+
 #: Electrical time constants of an inductive load simulated before the measured cycle.
 SETTLE_TAUS = 8.0
 
@@ -86,6 +91,17 @@ class Deck:
     load: str | None
 
 
+def _check_supported(design: Any, what: str) -> None:
+    """DesignError naming the field and value when the netlist cannot be built for this design."""
+    topo = design.timing.topology
+    if topo not in SUPPORTED_TOPOLOGIES:
+        raise DesignError(f"timing.topology: {topo!r} has no circuit netlist yet; netlist/verify support "
+                          + ", ".join(repr(x) for x in SUPPORTED_TOPOLOGIES))
+    if what == "driver" and design.load is not None and design.load.kind not in SUPPORTED_LOADS:
+        raise DesignError(f"load.kind: {design.load.kind!r} has no driver netlist yet; driver netlists support "
+                          + ", ".join(repr(x) for x in SUPPORTED_LOADS) + " (what='timing' simulates the timer only)")
+
+
 def _header(design: Any, what: str, net: TimingNetwork, extra: list[str]) -> list[str]:
     from .. import __version__
 
@@ -115,6 +131,7 @@ def deck(design: Any, *, what: What = "timing", steps: int = 2000, fast_steps: i
         raise DesignError(f"design: expected a pwmkit.design.Design, got {type(design).__name__}")
     if what not in ("timing", "driver"):
         raise DesignError(f"what: {what!r} is not allowed; allowed: 'timing', 'driver'")
+    _check_supported(design, what)
     net = timing_network(design)
     timing = design.astable()  # sizes the simulated time and the step limit only
     period, t_fast = float(timing.period), float(min(timing.t_high, timing.t_low))
