@@ -39,9 +39,10 @@ __all__ = ["netlist", "timing_network", "Deck", "deck"]
 What = Literal["timing", "driver"]
 
 #: Timing topologies :func:`netlist` can build.
-SUPPORTED_TOPOLOGIES = ("classic", "bypass", "steered", "pot")
-#: Load kinds a driver netlist can carry.
+SUPPORTED_TOPOLOGIES = ("classic", "bypass", "steered", "pot", "two-timer")
+#: Load kinds a driver netlist can carry: astable topologies, and the two-timer PWM.
 SUPPORTED_LOADS = ("led", "motor")
+SUPPORTED_LOADS_TWO_TIMER = ("heater",)
 
 #: Electrical time constants of an inductive load simulated before the measured cycle.
 SETTLE_TAUS = 8.0
@@ -97,9 +98,11 @@ def _check_supported(design: Any, what: str) -> None:
     if topo not in SUPPORTED_TOPOLOGIES:
         raise DesignError(f"timing.topology: {topo!r} has no circuit netlist yet; netlist/verify support "
                           + ", ".join(repr(x) for x in SUPPORTED_TOPOLOGIES))
-    if what == "driver" and design.load is not None and design.load.kind not in SUPPORTED_LOADS:
-        raise DesignError(f"load.kind: {design.load.kind!r} has no driver netlist yet; driver netlists support "
-                          + ", ".join(repr(x) for x in SUPPORTED_LOADS) + " (what='timing' simulates the timer only)")
+    loads = SUPPORTED_LOADS_TWO_TIMER if topo == "two-timer" else SUPPORTED_LOADS
+    if what == "driver" and design.load is not None and design.load.kind not in loads:
+        raise DesignError(f"load.kind: {design.load.kind!r} has no driver netlist with the {topo!r} topology yet; "
+                          "its driver netlists support " + ", ".join(repr(x) for x in loads)
+                          + " (what='timing' simulates the timer only)")
 
 
 def _header(design: Any, what: str, net: TimingNetwork, extra: list[str]) -> list[str]:
@@ -132,6 +135,10 @@ def deck(design: Any, *, what: What = "timing", steps: int = 2000, fast_steps: i
     if what not in ("timing", "driver"):
         raise DesignError(f"what: {what!r} is not allowed; allowed: 'timing', 'driver'")
     _check_supported(design, what)
+    if design.timing.topology == "two-timer":
+        from .two_timer import two_timer_deck
+
+        return two_timer_deck(design, what)
     net = timing_network(design)
     timing = design.astable()  # sizes the simulated time and the step limit only
     period, t_fast = float(timing.period), float(min(timing.t_high, timing.t_low))

@@ -38,6 +38,15 @@ TOLERANCES: dict[str, tuple[float, str]] = {
     "motor_mean": (0.03, "the model counts R_DS(on) in both half-cycles and one freewheel drop; the circuit "
                          "has the switch only while on and a Shockley freewheel diode"),
     "motor_ripple": (0.05, "as motor_mean"),
+    "pwm_frequency": (0.005, "two-timer: the clock is a classic astable, the same physics as the closed form; step "
+                             "≤ 1/4000 of the period"),
+    "pwm_duty": (0.005, "two-timer: the model rests the monostable capacitor at the switch's saturation voltage; in the "
+                        "circuit r_mono still feeds the closed switch, a few mV higher (≈ 0.1 % of the pulse); latch "
+                        "edges within one time step (≤ 1/400 of the shortest interval)"),
+    "control_pin": (0.005, "the same divider (control source or thermistor against the internal divider)"),
+    "v_mono_peak": (0.005, "the monostable capacitor turns at the control-pin voltage (overshoot ≤ one time step)"),
+    "heater_peak": (0.01, "resistive element at the model's element temperature; R_DS(on) at the gate drive"),
+    "heater_mean": (0.03, "peak × duty; the MOSFET's turn-on delay shortens the on-time slightly"),
     "drain_peak": (0.03, "motor: supply + clamp drop; the circuit's freewheel diode drops what the Shockley "
                          "law gives at the turn-off current"),
 }
@@ -166,6 +175,8 @@ def verify(design: Any, *, what: str | None = None, timeout: float = 300.0) -> V
     if what is None:
         what = "driver" if getattr(design, "load", None) is not None else "timing"
     dk = deck(design, what=what)  # validates design and what
+    if design.timing.topology == "two-timer":
+        return _verify_two_timer(design, what, dk, run_ngspice(dk.text, timeout=timeout))
     ev = evaluate(design, spread=False, diode_law=True)
     sim = run_ngspice(dk.text, timeout=timeout)
     f1, r1, f2 = sim.get("f1"), sim.get("r1"), sim.get("f2")
@@ -205,5 +216,32 @@ def verify(design: Any, *, what: str | None = None, timeout: float = 300.0) -> V
                              sim.get("imot_max") - sim.get("imot_min")))
             rows.append(_row("drain_peak", "MOSFET drain voltage, peak", "V", ev.clamp.v_switch_peak,
                              sim.get("vdrain_max")))
+    return Verification(design=design.name, what=what, rows=tuple(rows), passed=all(r.passed for r in rows),
+                        netlist=dk.text, ngspice_log=sim.log)
+
+
+def _verify_two_timer(design: Any, what: str, dk: Any, sim: Any) -> Verification:
+    """Rows of a two-timer design: PWM frequency and duty at the operating control voltage, the heater."""
+    from ..two_timer_design import operating_point, two_timer_at_pin
+
+    f1, r1, f2 = sim.get("f1"), sim.get("r1"), sim.get("f2")
+    period = f2 - f1
+    if not period > 0:
+        raise DesignError("ngspice: the measured period is not positive; see the log")
+    v_pin, _v_source, _loop = operating_point(design)
+    p = two_timer_at_pin(design, design.vcc, v_pin)
+    rows = [_row("pwm_frequency", "PWM frequency (clock closed form)", "Hz", p.frequency, 1.0 / period),
+            _row("pwm_duty", "PWM duty (monostable model)", "", p.duty, (f2 - r1) / period),
+            _row("control_pin", "control-pin voltage", "V", v_pin, sim.get("vcv_avg")),
+            _row("v_mono_peak", "monostable capacitor maximum", "V", p.v_peak, sim.get("vmono_max"))]
+    if what == "driver":
+        from ..evaluate import evaluate
+
+        ev = evaluate(design, spread=False, diode_law=False)
+        if ev.heater is None:
+            raise DesignError("design: the heater element could not be evaluated")
+        el = ev.heater.element
+        rows.append(_row("heater_peak", "heater current, peak", "A", el.i_on, sim.get("iheat_max")))
+        rows.append(_row("heater_mean", "heater current, mean", "A", el.i_on * el.duty, sim.get("iheat_avg")))
     return Verification(design=design.name, what=what, rows=tuple(rows), passed=all(r.passed for r in rows),
                         netlist=dk.text, ngspice_log=sim.log)
