@@ -30,7 +30,16 @@ import math
 from typing import Any
 
 from ..errors import DesignError
-from .elements import IDEAL_SWITCH_R, OFF_R, TimingNetwork, fmt, mosfet_block, resistor, timer_block, timing_block
+from .elements import (
+    IDEAL_SWITCH_R,
+    OFF_R,
+    TimingNetwork,
+    fmt,
+    mosfet_block,
+    resistor,
+    timer_block,
+    timing_block,
+)
 
 __all__ = ["two_timer_deck", "clock_network", "monostable_block", "output_block", "LATCH_C", "LATCH_G"]
 
@@ -78,7 +87,6 @@ def monostable_block(design: Any, *, t_sensor_c: float | None, trigger_state: st
 
     t = design.timing
     fam = get_timer(t.timer)
-    vcc = float(design.vcc)
     v_rest, r_dis = _discharge(design)
     lines = [resistor("mono", "vcc", "mcap", t.r_mono), f"Cmono mcap 0 {fmt(t.c_mono)}"]
     notes: list[str] = []
