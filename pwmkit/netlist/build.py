@@ -7,7 +7,13 @@ the circuit built from the design's input values and wiring, a transient analysi
 compares. Only the simulated time and the step limit are sized from pwmkit's period estimate
 and the load's time constant; no computed figure enters the circuit — except the motor's
 back-EMF, a source at the steady speed pwmkit solves for (the mechanical time constant is
-seconds, far beyond a switching-period simulation), stated in the header.
+seconds, far beyond a switching-period simulation), stated in the header. The two-timer PWM
+(astable clock + monostable) and its heater load are built by :mod:`pwmkit.netlist.two_timer`
+(the thermistor's and the element's temperatures are likewise pwmkit's steady state, stated).
+
+Supported: the topologies in :data:`SUPPORTED_TOPOLOGIES`; driver loads
+:data:`SUPPORTED_LOADS` (astables) and :data:`SUPPORTED_LOADS_TWO_TIMER` (two-timer). Anything
+else is a :class:`~pwmkit.DesignError` naming the field and value.
 
 References
 ----------
@@ -243,22 +249,27 @@ def netlist(design: Any, *, what: What = "timing") -> str:
     ----------
     design : pwmkit.design.Design
     what : {"timing", "driver"}
-        ``"timing"``: the timing network, the control pin and the behavioural timer;
+        ``"timing"``: the timing network, the control pin and the behavioural timer (for the
+        "two-timer" topology: the clock astable and the monostable with its control source or
+        thermistor divider);
         ``"driver"``: also the timer output, gate resistor and MOSFET, and the load (LED strings,
-        or the motor with its freewheel diode and optional Zener clamp).
+        the motor with its freewheel diode and optional Zener clamp, or — two-timer — the heater
+        element as a resistance at its steady temperature).
 
     Returns
     -------
     str
         The netlist, runnable with ``ngspice -b``; its ``meas`` commands print the edge times
-        (``f1``, ``r1``, ``f2``), the capacitor extremes and, for a driver, the load currents and
-        the peak drain voltage.
+        (``f1``, ``r1``, ``f2``), the capacitor extremes (two-timer: the monostable capacitor's
+        maximum and the control-pin voltage) and, for a driver, the load currents and the peak
+        drain voltage.
 
     Raises
     ------
     DesignError
-        Not a design, an unknown ``what``, a driver netlist without a load, or a design that does
-        not oscillate (the period sizes the simulated time).
+        Not a design, an unknown ``what``, a driver netlist without a load, a topology or load
+        kind without a netlist (the message names the field and what is supported), or a design
+        that does not oscillate (the period sizes the simulated time).
 
     Examples
     --------

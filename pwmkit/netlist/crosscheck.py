@@ -10,6 +10,9 @@ The tolerances are stated, not tuned per design: the timing rows compare the sam
 (≤ 0.5 %); the closed form's constant drop is a known approximation (≤ 5 %); the driver rows
 include what the models leave out on purpose — the MOSFET's gate delay and smooth turn-on, the
 freewheel diode's changing drop, and for a motor the switch resistance counted in both half-cycles.
+A two-timer design is compared at its operating control voltage (the nominal source, or the
+thermistor loop's steady point): PWM frequency and duty, the control-pin voltage, the monostable
+capacitor's maximum and, for the driver, the heater current.
 """
 
 from __future__ import annotations
