@@ -31,7 +31,7 @@ def supply_oscillation(design: Any, ev: Any) -> Any:
     """The astable must oscillate at both ends of the supply range.
 
     Fail when the charge asymptote does not exceed the upper threshold or the discharge asymptote
-    does not fall below the lower threshold at ``vcc_min`` or ``vcc_max`` (REFERENCES §1.8); ok
+    does not fall below the lower threshold at ``vcc_min`` or ``vcc_max`` (oscillation conditions of the RC law: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7); ok
     otherwise. Origin: datasheet-generic (thresholds 1/3 and 2/3 of the supply).
     """
     err = ev.corners.error
@@ -53,7 +53,7 @@ def tolerance_analysis(design: Any, ev: Any) -> Any:
     Applies when the supply corners oscillate; listed as not run until the tolerance analysis runs
     (quick mode). Fail when
     Monte Carlo samples or worst-case points do not oscillate (the design sits near the limits of
-    REFERENCES §1.8); warn when part of the analysis could not run for another reason (e.g. an
+    oscillation conditions of the RC law: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7); warn when part of the analysis could not run for another reason (e.g. an
     ambient outside the capacitor dielectric's rated range); ok otherwise. Origin:
     datasheet-generic (thresholds 1/3 and 2/3 of the supply).
     """

@@ -249,6 +249,7 @@ def finding_value_text(x: float | None, unit: str) -> str:
 
 def _findings(evaluation: Any) -> str:
     from ..checks import severity_style
+    from ..origins import origin_text
 
     fs = evaluation.findings
     order = {"fail": 0, "warn": 1, "ok": 2}
@@ -259,7 +260,7 @@ def _findings(evaluation: Any) -> str:
         rows.append(f"<tr><td><span class='sev sev-{_e(f.severity)}'>{_e(symbol)} {_e(word)}</span></td>"
                     f"<td><b>{_e(f.title)}</b><br><code>{_e(f.id)}</code></td><td class='num'>{_e(finding_value_text(f.value, f.unit))}</td>"
                     f"<td class='num'>{_e(finding_value_text(f.limit, f.unit))}</td><td>{_e(f.explanation)}{remedy}"
-                    f"<br><span class='note'>origin: {_e(f.origin)}</span></td></tr>")
+                    f"<br><span class='note'>origin: {_e(origin_text(f.origin))}</span></td></tr>")
     head = ("<tr><th>severity</th><th>rule</th><th class='num'>value</th><th class='num'>limit</th>"
             "<th>finding</th></tr>")
     return f"<table class='findings'><thead>{head}</thead><tbody>{''.join(rows)}</tbody></table>"
@@ -390,6 +391,11 @@ def report_html(design: Design, evaluation: Any = None) -> str:
         ("formulas", "Timing formulas with this design's numbers", _formulas(design)),
         ("cautions", "Cautions", _cautions(evaluation)),
     ]
+    from .report_crosscheck import crosscheck_section
+
+    crosscheck = crosscheck_section(design)  # only where ngspice is installed
+    if crosscheck is not None:
+        sections.insert(-1, ("crosscheck", "Cross-check with a circuit simulation (ngspice)", crosscheck))
     body = "".join(f"<section id='{sid}'><h2>{_e(title)}</h2>{content}</section>" for sid, title, content in sections)
     return (
         "<!DOCTYPE html>\n<html lang='en'><head><meta charset='utf-8'>"

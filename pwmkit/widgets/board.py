@@ -95,6 +95,7 @@ class Dashboard(w.VBox):
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
     control_heater : ControlHeaterPanel or None — two-timer designs and heater loads (first tab)
+    crosscheck : CrossCheckBox or None (None where ngspice is not installed)
     as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
     tabs : ipywidgets.Tab
     """
@@ -156,7 +157,11 @@ class Dashboard(w.VBox):
         self.timing.layout.min_width = "560px"
         top = w.HBox([w.VBox([self.timing, self.requirement_band]), self.waveforms],
                      layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
-        super().__init__([self.file, self.header, self.cautions, top, self.tabs])
+        from .crosscheck import crosscheck_box
+
+        self.crosscheck = crosscheck_box(s)  # only where ngspice is installed
+        extra = [self.crosscheck] if self.crosscheck is not None else []
+        super().__init__([self.file, self.header, self.cautions, top, self.tabs, *extra])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")

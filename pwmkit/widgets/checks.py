@@ -7,6 +7,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
+from ..origins import origin_text
 from ._base import Panel, esc, fmt, num, safe_callback
 from .session import DesignSession, as_session
 
@@ -50,7 +51,7 @@ def findings_html(findings: Any, *, show_ok: bool = True) -> str:
             f"<b>{esc(f.title)}</b> <code style='font-size:11px;color:#5a6270'>{esc(f.id)}</code>"
             f"<span style='float:right'>{numbers}</span></div>"
             f"<div>{esc(f.explanation)}</div>{remedy}"
-            f"<div style='font-size:11px;color:#5a6270'>basis: {esc(f.origin)}</div></div>"
+            f"<div style='font-size:11px;color:#5a6270'>basis: {esc(origin_text(f.origin))}</div></div>"
         )
     if not cards:
         cards.append("<div style='color:#5a6270'>No warnings and no failures.</div>")

@@ -11,6 +11,7 @@ from pathlib import Path
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import DesignError
 from pwmkit.design import Design, Freewheel, LedLoad, MotorLoad, Requirements, Switch, Timing, demo_designs
@@ -125,9 +126,11 @@ def designs(draw: st.DrawFn) -> Design:
     )
 
 
+@reaching()
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(designs())
 def test_random_designs_round_trip_without_loss(design: Design) -> None:
+    reached()  # no early return: every example reaches the assertions
     text = design_to_toml(design)
     back = design_from_toml(text)
     assert back == design
@@ -136,9 +139,11 @@ def test_random_designs_round_trip_without_loss(design: Design) -> None:
 
 
 def test_random_design_file_round_trip_on_disk(tmp_path: Path) -> None:
+    @reaching()
     @settings(max_examples=10, deadline=None)
     @given(designs())
     def check(design: Design) -> None:
+        reached()  # no early return: every example reaches the assertions
         path = save_design(design, tmp_path / "d.toml", force=True)
         assert load_design(path) == design
 
