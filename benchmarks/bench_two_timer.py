@@ -1,5 +1,6 @@
-"""Two-timer PWM and heater benchmark: vectorised modulator vs a per-element loop, the closed loop,
-synthesis, and evaluate() of the heat-mat demo (quick mode, target ≲ 30 ms as for the astables).
+"""Two-timer PWM and heater benchmark: cold start (generated forms vs the old run-time lambdify
+route), vectorised modulator vs a per-element loop, the closed loop, synthesis, and evaluate() of
+the heat-mat demo (quick mode, target ≲ 30 ms as for the astables).
 
 All figures are measured side by side in one run and printed with their ratios.
 
@@ -9,8 +10,10 @@ Run: python benchmarks/bench_two_timer.py [n]
 from __future__ import annotations
 
 import statistics
+import subprocess
 import sys
 import time
+from pathlib import Path
 
 import numpy as np
 
@@ -32,7 +35,37 @@ def timed(fn, repeats: int = 5) -> float:
     return statistics.median(times)
 
 
+_CALL = "two_timer_pwm(ra=56e3, rb=2.2e3, c=100e-9, r_mono=22e3, c_mono=100e-9, vcc=12.0, vctl=5.0)"
+#: first two_timer_pwm() in a new process, import included; the generated forms of timing/_derived.py
+COLD_GENERATED = ("import time, sys; t = time.perf_counter(); from pwmkit.timing import two_timer_pwm; "
+                  f"{_CALL}; print(time.perf_counter() - t, 'sympy' in sys.modules)")
+#: the same with the old route: derive with sympy and lambdify before the first call (what
+#: two_timer_pwm did before the monostable forms were generated)
+COLD_LAMBDIFY = ("import time, sys; t = time.perf_counter(); from pwmkit.timing import two_timer_pwm; "
+                 "from pwmkit.timing.monostable_symbolic import monostable_numeric; monostable_numeric(); "
+                 f"{_CALL}; print(time.perf_counter() - t, 'sympy' in sys.modules)")
+_EXAMPLE = Path(__file__).resolve().parents[1] / "examples" / "greenhouse-heat-mat.toml"
+COLD_EVALUATE = ("import time, sys; t = time.perf_counter(); from pwmkit.record.designfile import load_design; "
+                 "from pwmkit.evaluate import evaluate; "
+                 f"evaluate(load_design({str(_EXAMPLE)!r}), spread=False); "
+                 "print(time.perf_counter() - t, 'sympy' in sys.modules)")
+
+
+def cold(code: str, runs: int = 3) -> tuple[float, str]:
+    """Best time of ``code`` in fresh processes [s] and whether sympy got imported."""
+    outs = [subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.split()
+            for _ in range(runs)]
+    return min(float(o[0]) for o in outs), outs[0][1]
+
+
 def main(n: int = 100_000) -> None:
+    (t_gen, s_gen), (t_lam, s_lam) = cold(COLD_GENERATED), cold(COLD_LAMBDIFY)
+    t_eval, s_eval = cold(COLD_EVALUATE)
+    print(f"first two_timer_pwm() in a new process (import included): generated forms {1e3 * t_gen:.0f} ms "
+          f"(sympy imported: {s_gen}); old route, sympy derivation + lambdify {1e3 * t_lam:.0f} ms "
+          f"(sympy imported: {s_lam}); ratio {t_lam / t_gen:.1f}×")
+    print(f"load + evaluate(greenhouse-heat-mat.toml, spread=False) in a new process: {1e3 * t_eval:.0f} ms "
+          f"(sympy imported: {s_eval})")
     mat = demo_designs()["heat-mat"]
     t0 = time.perf_counter()
     two_timer_pwm(vctl=5.0, **KW)
@@ -41,7 +74,7 @@ def main(n: int = 100_000) -> None:
     t_vec = timed(lambda: two_timer_pwm(vctl=v, **KW))
     m = 1000
     t_loop = timed(lambda: [two_timer_pwm(vctl=float(x), **KW) for x in v[:m]], repeats=3) * (n / m)
-    print(f"first call (sympy derivation + lambdify): {1e3 * first:.1f} ms")
+    print(f"first call in this process (modules already imported): {1e3 * first:.1f} ms")
     print(f"two_timer_pwm over {n} control voltages: vectorised {1e3 * t_vec:.2f} ms, per-element loop "
           f"{1e3 * t_loop:.0f} ms (scaled from {m}); ratio {t_loop / t_vec:.0f}×")
     t_range = timed(lambda: control_range(vctl_low=4.0, vctl_high=7.0, **KW))

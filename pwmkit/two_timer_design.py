@@ -104,8 +104,8 @@ def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray
     ``v_pin`` scaled with the supply (a ratiometric divider such as the thermistor's).
     """
     from .timing import astable, two_timer_pwm
+    from .timing._derived import monostable_width
     from .timing.monostable import start_level
-    from .timing.monostable_symbolic import monostable_numeric
 
     t = design.timing
     if v_pin is not None:
@@ -116,7 +116,7 @@ def _evaluate_points(design: Any, values: dict[str, np.ndarray], vcc: np.ndarray
                   **({} if t.vsat is None else {"vsat": t.vsat}))
     v_rest = start_level(values["r_mono"], vcc, t.timer) if t.vsat is None else np.full_like(vcc, t.vsat)
     with np.errstate(all="ignore"):
-        w = monostable_numeric()[0](values["r_mono"], values["c_mono"], vcc, vctl, v_rest)
+        (w,) = monostable_width(values["r_mono"], values["c_mono"], vcc, vctl, v_rest)
     reach = vctl < vcc
     fits = np.where(reach, np.maximum(w, clk.t_low) < clk.period, False)
     ok = reach & fits

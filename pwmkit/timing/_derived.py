@@ -359,6 +359,25 @@ def partials_pot(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl):
     return (t_high, t_low, dt_high_dra, dt_high_drb, dt_high_dpot, dt_high_dwiper, dt_high_dc, dt_high_dvcc, dt_high_dvd, dt_high_dvsat, dt_high_dr_on, dt_high_dvctl, dt_low_dra, dt_low_drb, dt_low_dpot, dt_low_dwiper, dt_low_dc, dt_low_dvcc, dt_low_dvd, dt_low_dvsat, dt_low_dr_on, dt_low_dvctl,)
 
 
+def monostable_width(r, c, vcc, vctl, v_start):
+    """Monostable pulse width from the start level v_start to the threshold vctl [s]."""
+    width = c*r*log((-v_start + vcc)/(vcc - vctl))
+    return (width,)
+
+
+def two_timer_duty(r, c, vcc, vctl, v_start, period):
+    """Two-timer duty t_w/T [1] and its partial derivatives by vctl and by vcc (fixed vctl) [1/V]."""
+    _x0 = -v_start + vcc
+    _x1 = -vctl
+    _x2 = (_x1 + vcc)**(-1.0)
+    _x3 = c*r/period
+    _x4 = _x2*_x3
+    duty = _x3*log(_x0*_x2)
+    duty_per_volt = _x4
+    duty_per_supply = _x4*(_x1 + v_start)/_x0
+    return (duty, duty_per_volt, duty_per_supply,)
+
+
 #: kind → f(r, c, v_inf, v_0, v_1) -> (t,): the first-order threshold-crossing law
 CROSSING = {
     'rc': crossing_time,
@@ -388,4 +407,11 @@ PARTIALS = {
     'bypass': partials_bypass,
     'steered': partials_steered,
     'pot': partials_pot,
+}
+
+
+#: name → monostable / two-timer form: 'width' f(r, c, vcc, vctl, v_start) -> (width,); 'duty' f(r, c, vcc, vctl, v_start, period) -> (duty, duty_per_volt, duty_per_supply)
+MONOSTABLE = {
+    'width': monostable_width,
+    'duty': two_timer_duty,
 }

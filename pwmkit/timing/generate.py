@@ -102,6 +102,27 @@ def _partials(topology: str) -> Callable[[], list[tuple[str, Any]]]:
     return build
 
 
+#: Argument names of the monostable and two-timer forms, in order, and the fields of
+#: :class:`pwmkit.timing.monostable_symbolic.MonostableSymbols` they stand for.
+MONOSTABLE_ARGS = ("r", "c", "vcc", "vctl", "v_start", "period")
+_MONOSTABLE_FIELDS = ("r", "c", "vcc", "vctl", "v_start", "period")
+
+
+def _monostable(*fields: str) -> Callable[[], list[tuple[str, Any]]]:
+    """Builder of the monostable forms ``fields`` of :class:`~.monostable_symbolic.MonostableExpressions`."""
+
+    def build() -> list[tuple[str, Any]]:
+        import sympy as sp
+
+        from .monostable_symbolic import monostable_expressions
+
+        e = monostable_expressions()
+        names = {getattr(e.symbols, f): sp.Symbol(a) for f, a in zip(_MONOSTABLE_FIELDS, MONOSTABLE_ARGS)}
+        return [(f, getattr(e, f).xreplace(names)) for f in fields]
+
+    return build
+
+
 _TOPOLOGIES = ("classic", "bypass", "steered", "pot")
 _DISCHARGES = ("general", "saturation", "resistance")
 
@@ -117,6 +138,11 @@ FORMS: list[Form] = [
            f"t_high, t_low of the {t!r} topology (general discharge) and their partial derivatives "
            "in argument order: d t_high/d arg…, then d t_low/d arg….")
       for t in _TOPOLOGIES),
+    Form("MONOSTABLE", "width", "monostable_width", MONOSTABLE_ARGS[:5], _monostable("width"),
+         "Monostable pulse width from the start level v_start to the threshold vctl [s].", cse=False),
+    Form("MONOSTABLE", "duty", "two_timer_duty", MONOSTABLE_ARGS, _monostable("duty", "duty_per_volt",
+                                                                                "duty_per_supply"),
+         "Two-timer duty t_w/T [1] and its partial derivatives by vctl and by vcc (fixed vctl) [1/V]."),
 ]
 
 #: Group name → one line describing the dictionary in the generated module.
@@ -124,6 +150,8 @@ GROUPS: dict[str, str] = {
     "CROSSING": "kind → f(r, c, v_inf, v_0, v_1) -> (t,): the first-order threshold-crossing law",
     "TIMING": "(topology, discharge) → f(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl) -> (t_high, t_low)",
     "PARTIALS": "topology → f(ra, rb, pot, wiper, c, vcc, vd, vsat, r_on, vctl) -> (t_high, t_low, ∂t_high…, ∂t_low…)",
+    "MONOSTABLE": "name → monostable / two-timer form: 'width' f(r, c, vcc, vctl, v_start) -> (width,); "
+                  "'duty' f(r, c, vcc, vctl, v_start, period) -> (duty, duty_per_volt, duty_per_supply)",
 }
 
 _HEADER = '''"""Closed forms derived with sympy, written out as numpy code. GENERATED — do not edit.

@@ -1,7 +1,8 @@
 """Numeric evaluation of the monostable and the control-pin drive of a 555-type timer.
 
 :func:`monostable` evaluates the sympy-derived pulse width
-(:mod:`pwmkit.timing.monostable_symbolic`) through a cached :func:`sympy.lambdify` function;
+(:mod:`pwmkit.timing.monostable_symbolic`) as written out in the generated module
+:mod:`pwmkit.timing._derived` (no sympy at run time; see :mod:`pwmkit.timing.generate`);
 :func:`control_pin_drive` gives the control-pin voltage when a source with an internal resistance
 (a thermistor divider, an op-amp, another circuit) works against the timer's internal divider;
 :func:`control_pin_sweep` is the single-timer control-pin modulation of an astable (frequency and
@@ -188,7 +189,7 @@ def _first(mask: Any, *arrays: Any) -> list[float]:
 
 
 def _monostable_core(q: dict[str, Any]) -> MonostableResult:
-    from .monostable_symbolic import monostable_numeric
+    from ._derived import monostable_width
 
     vcc, vctl, vs = q["vcc"], q["vctl"], q["v_start"]
     bad = np.logical_not(np.asarray(vctl) < np.asarray(vcc))
@@ -201,9 +202,9 @@ def _monostable_core(q: dict[str, Any]) -> MonostableResult:
         v, s = _first(bad, vctl, vs)
         raise DesignError(f"vctl: {v:.4g} V is not above the capacitor's start level {s:.4g} V, so there is "
                           "no timed pulse; raise vctl")
-    width_fn = monostable_numeric()[0]
     with np.errstate(all="ignore"):
-        width = np.asarray(width_fn(q["r"], q["c"], vcc, vctl, vs), dtype=float)
+        (width,) = monostable_width(q["r"], q["c"], vcc, vctl, vs)
+        width = np.asarray(width, dtype=float)
     if not np.all(np.isfinite(width)):
         raise DesignError("monostable: the pulse width is not finite (component values too extreme for double "
                           "precision); check the orders of magnitude of r and c")

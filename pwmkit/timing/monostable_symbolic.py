@@ -10,7 +10,8 @@ falls when it reaches the upper threshold, which the control pin sets to ``V_ctl
 With ``V_s = 0`` and the internal divider (``V_ctl = 2 V_cc/3``) the derivation gives the trade's
 ``ln 3 ≈ 1.0986 ≈ 1.1·R·C``. In the two-timer PWM an astable clock of period ``T`` triggers the
 monostable, so the duty is ``t_w / T``; its derivatives with respect to the control voltage and
-the supply (supply sensitivity) are taken here symbolically and lambdified for numpy.
+the supply (supply sensitivity) are taken here symbolically; the numeric code runs them as
+written out in the generated module :mod:`pwmkit.timing._derived` (see :mod:`pwmkit.timing.generate`).
 
 After the pulse the discharge switch (modelled as a resistance ``R_dis``) empties the capacitor
 while ``R_M`` keeps feeding it, so it settles toward ``V_cc·R_dis/(R_M + R_dis)`` with the time
@@ -169,7 +170,10 @@ def _log_form(expr: Any, s: MonostableSymbols) -> Any:
 def monostable_numeric() -> Any:
     """numpy functions ``(width, duty_per_volt, duty_per_supply)`` of ``(r, c, vcc, vctl, v_start, period)``.
 
-    Made with :func:`sympy.lambdify` from :func:`monostable_expressions`; cached.
+    Made with :func:`sympy.lambdify` from :func:`monostable_expressions`; cached. The package's
+    numeric code does not use this (it runs the generated ``monostable_width`` and
+    ``two_timer_duty`` of :mod:`pwmkit.timing._derived`, no sympy at run time); it is kept as the
+    run-time route the benchmark compares against.
     """
     import sympy as sp
 

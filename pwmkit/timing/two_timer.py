@@ -182,10 +182,9 @@ def _clock(q: dict[str, Any]) -> Any:
 
 
 def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
-    from .monostable_symbolic import monostable_numeric
+    from ._derived import monostable_width, two_timer_duty
 
     clk = q["_clock"] if q.get("_clock") is not None else _clock(q)
-    width_fn, d_per_v, _ = monostable_numeric()
     vcc, vctl, v_rest = q["vcc"], q["vctl"], q["v_rest"]
     r, cm = q["r_mono"], q["c_mono"]
     rc = np.asarray(r) * cm
@@ -206,7 +205,7 @@ def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
     vctl_min = vcc - (vcc - v_rest) * np.exp(-t_trig / rc)
     vctl_max = vcc - (vcc - v_rest) * np.exp(-(period - t_rec) / rc)
     with np.errstate(all="ignore"):
-        w_full = np.asarray(width_fn(r, cm, vcc, vctl, v_rest), dtype=float)
+        w_full = np.asarray(monostable_width(r, cm, vcc, vctl, v_rest)[0], dtype=float)
     bad = np.logical_not(np.maximum(w_full, t_trig) < period)
     if np.any(bad):
         v, vmax, f = _first(bad, vctl, vctl_max, 1.0 / period)
@@ -228,7 +227,7 @@ def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
         t_high = np.maximum(w, t_trig)
         v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
         duty = t_high / period
-        slope = np.asarray(d_per_v(r, cm, vcc, vctl, v_rest, period), dtype=float)
+        slope = np.asarray(two_timer_duty(r, cm, vcc, vctl, v_rest, period)[1], dtype=float)
     if not (np.all(np.isfinite(duty)) and np.all(np.isfinite(w))):
         raise DesignError("two_timer_pwm: non-finite timing (component values too extreme for double precision)")
     shape = np.broadcast(duty, vctl, vcc, r, cm, period).shape

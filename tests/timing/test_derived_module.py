@@ -49,7 +49,8 @@ def test_generated_function_matches_sympy_high_precision(form: generate.Form) ->
                  "wiper": rng.uniform(0.05, 0.95), "c": rng.uniform(1e-9, 1e-6), "vcc": rng.uniform(9, 15),
                  "vd": rng.uniform(0.3, 0.7), "vsat": rng.uniform(0.0, 0.2), "r_on": rng.uniform(0.0, 50.0)}
         point["vctl"] = 2 * point["vcc"] / 3
-        point.update(r=point["ra"], v_inf=point["vcc"], v_0=point["vctl"] / 2, v_1=point["vctl"])
+        point.update(r=point["ra"], v_inf=point["vcc"], v_0=point["vctl"] / 2, v_1=point["vctl"],
+                     v_start=point["vsat"], period=rng.uniform(1e-4, 1e-2))
         got = fn(*(point[a] for a in form.args))
         subs = {sp.Symbol(a): sp.Float(point[a], 30) for a in form.args}
         for (name, expr), value in zip(outputs, got):
@@ -63,6 +64,59 @@ def test_first_timing_call_in_a_new_process_imports_no_sympy() -> None:
             "print('sympy' in sys.modules)")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+def test_monostable_and_two_timer_forms_are_in_the_lock() -> None:
+    # the forms the monostable / two-timer numeric code runs are generated, not lambdified at run time
+    names = {f.name: f for f in generate.FORMS}
+    assert names["monostable_width"].group == names["two_timer_duty"].group == "MONOSTABLE"
+    assert [n for n, _ in names["two_timer_duty"].build()] == ["duty", "duty_per_volt", "duty_per_supply"]
+
+
+_COLD_TWO_TIMER = (
+    "import sys\n"
+    "from pwmkit.timing import monostable, two_timer_pwm\n"
+    "m = monostable(r='100k', c='100n', vcc=12)\n"
+    "p = two_timer_pwm(ra=20e3, rb=1e3, c=100e-9, r_mono=10e3, c_mono=100e-9, vcc=12.0, vctl=6.0)\n"
+    "print(m.width, p.duty, p.duty_per_volt, 'sympy' in sys.modules)\n"
+)
+
+
+def test_first_monostable_and_two_timer_call_in_a_new_process_imports_no_sympy() -> None:
+    out = subprocess.run([sys.executable, "-c", _COLD_TWO_TIMER], capture_output=True, text=True, check=True)
+    width, duty, per_volt, has_sympy = out.stdout.split()
+    assert has_sympy == "False"
+    # and the numbers are the derivation's: sympy's 30-digit evaluation of the same expressions
+    import sympy as sp
+
+    from pwmkit.timing import two_timer_pwm
+    from pwmkit.timing.monostable import start_level
+    from pwmkit.timing.monostable_symbolic import monostable_expressions
+
+    e = monostable_expressions()
+    s = e.symbols
+    f = sp.Float
+    w_ref = e.width.evalf(30, subs={s.r: f(100e3, 30), s.c: f(100e-9, 30), s.vcc: f(12, 30), s.vctl: f(8, 30),
+                                    s.v_start: f(float(start_level(100e3, 12.0, "bipolar")), 30)})
+    assert float(width) == pytest.approx(float(w_ref), rel=1e-12)
+    p = two_timer_pwm(ra=20e3, rb=1e3, c=100e-9, r_mono=10e3, c_mono=100e-9, vcc=12.0, vctl=6.0)
+    slope_ref = e.duty_per_volt.evalf(30, subs={s.r: f(10e3, 30), s.c: f(100e-9, 30), s.vcc: f(12, 30),
+                                                s.vctl: f(6, 30), s.period: f(float(p.period), 30)})
+    assert float(per_volt) == pytest.approx(float(slope_ref), rel=1e-12)
+    assert float(duty) == float(p.duty)  # same process-independent numbers
+
+
+def test_quick_evaluate_of_the_heat_mat_example_imports_no_sympy() -> None:
+    from pathlib import Path
+
+    example = Path(__file__).resolve().parents[2] / "examples" / "greenhouse-heat-mat.toml"
+    code = ("import sys\n"
+            "from pwmkit.record.designfile import load_design\n"
+            "from pwmkit.evaluate import evaluate\n"
+            f"r = evaluate(load_design({str(example)!r}), spread=False)\n"
+            "print(type(r).__name__, 'sympy' in sys.modules)\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.split() == ["Evaluation", "False"]
 
 
 def test_astable_equals_the_topology_closed_forms() -> None:
