@@ -31,6 +31,7 @@ from .formulas import FormulasPanel
 from .loads import LoadsPanel
 from .session import DesignSession, as_session
 from .spread import SpreadPanel
+from .tabs import PageTabs
 from .timing import TimingPanel
 from .views import FlickerPanel, PotTravelPanel, WaveformPanel
 
@@ -112,8 +113,7 @@ class Dashboard(w.VBox):
         ]
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
-        self.tabs = w.Tab(children=[p for _t, p in pages])
-        self.tabs.titles = tuple(t for t, _p in pages)
+        self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
         self.timing.layout.width = "560px"
         self.timing.layout.min_width = "560px"
         top = w.HBox([self.timing, self.waveforms], layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
@@ -199,12 +199,11 @@ class Dashboard(w.VBox):
                 panel.flush()
 
     def resync(self) -> int:
-        """Re-serialise every plot from its current state; returns the number of plots.
+        """Re-serialise every plot from its current state and redraw its views; returns the number of plots.
 
-        jupyter_bokeh draws a *new* view (for instance after the browser page was reloaded while
-        the kernel kept running) from the state the plot widget was created with; later changes
-        reach only views that already existed. Call this after a reload to bring new views up to
-        date (any edit of the design also refreshes the data, though not static labels).
+        Not needed after a page reload: every plot is a :class:`~pwmkit.widgets.tabs.LivePlot`,
+        which sends its current state to a front end that (re)connects. This redraws the views
+        that are open now (for instance after a plot was zoomed in the browser).
         """
         from jupyter_bokeh import BokehModel
 

@@ -147,9 +147,8 @@ class LoadsPanel(Panel):
 
     def __init__(self, design: Design | DesignSession, *, show_cautions: bool = True) -> None:
         super().__init__()
-        from jupyter_bokeh import BokehModel
-
         from ..plots.loads import LossBarsPlot, MotorCurrentPlot
+        from .tabs import live_plot
 
         self.session = as_session(design)
         self.load_html = w.HTML()
@@ -164,11 +163,9 @@ class LoadsPanel(Panel):
         self.losses_box = w.VBox()
         self.freewheel = w.HTML()
         self.refresh(self.session.evaluation)  # first data before the widgets are made (see views._bokeh)
-        self.motor_bokeh = BokehModel(self.motor_plot.layout)
-        self.motor_bokeh.add_class("pwmkit-plot-motor")
+        self.motor_bokeh = live_plot(self.motor_plot.layout, "pwmkit-plot", "pwmkit-plot-motor")
         self.motor_box.children = (self.motor_bokeh,)
-        self.losses_bokeh = BokehModel(self.losses.layout)
-        self.losses_bokeh.add_class("pwmkit-plot-losses")
+        self.losses_bokeh = live_plot(self.losses.layout, "pwmkit-plot", "pwmkit-plot-losses")
         self.losses_box.children = (self.losses_bokeh,)
         left = w.VBox([self.load_html, self.led_box, self.motor_box],
                       layout=w.Layout(min_width="420px", margin="0 16px 0 0"))

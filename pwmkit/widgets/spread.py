@@ -62,9 +62,8 @@ class SpreadPanel(Panel):
 
     def __init__(self, design: Design | DesignSession, *, debounce: float = 0.8) -> None:
         super().__init__()
-        from jupyter_bokeh import BokehModel
-
         from ..plots.spread import SpreadPlot
+        from .tabs import live_plot
 
         self.session = as_session(design)
         self.run = w.Button(description="Run Monte Carlo", icon="play", button_style="",
@@ -85,8 +84,7 @@ class SpreadPanel(Panel):
         else:
             self.plot.clear("press “Run Monte Carlo”")
             self.status.value = "<i>not run yet</i>"
-        self.bokeh = BokehModel(self.plot.layout)
-        self.bokeh.add_class("pwmkit-plot-spread")
+        self.bokeh = live_plot(self.plot.layout, "pwmkit-plot", "pwmkit-plot-spread")
         self._debounced = Debouncer(self._run_safely, debounce)
         self.set_body([w.HBox([self.run, self.samples, self.follow, self.status],
                               layout=w.Layout(align_items="center")), self.summary, self.bokeh])

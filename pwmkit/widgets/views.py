@@ -17,15 +17,12 @@ __all__ = ["WaveformPanel", "PotTravelPanel", "FlickerPanel"]
 def _bokeh(layout: Any, css: str) -> Any:
     """Wrap a bokeh layout in a live widget.
 
-    Call this only after the plot holds its first data: jupyter_bokeh renders a new view from the
-    state serialised here, and changes made before a view exists never reach it.
+    The widget is a :class:`~pwmkit.widgets.tabs.LivePlot`: a front end that connects later (a
+    reloaded page) is sent the plot as it is then, not as it was when the widget was made.
     """
-    from jupyter_bokeh import BokehModel
+    from .tabs import live_plot
 
-    model = BokehModel(layout)
-    model.add_class("pwmkit-plot")
-    model.add_class(css)
-    return model
+    return live_plot(layout, "pwmkit-plot", css)
 
 
 class WaveformPanel(Panel):
