@@ -224,7 +224,7 @@ def _export(args: argparse.Namespace) -> int:
         else:
             from .record.report import write_report
 
-            write_report(design, target, evaluation=evaluation, force=args.force)
+            write_report(design, target, evaluation=evaluation, force=args.force, source=args.design)
         print(target)
     return 0
 

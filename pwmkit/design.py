@@ -310,6 +310,7 @@ class Design:
     t_ambient_c : nominal ambient [°C]; t_ambient_min_c, t_ambient_max_c : range [°C]
     requirements : Requirements
     notes : free text for the design record
+    revision : revision note for the design record, e.g. "rev B: R2 4k7 → 3k9 after the bench test"
     """
 
     name: str = "design"
@@ -326,6 +327,7 @@ class Design:
     t_ambient_max_c: Any = 40.0
     requirements: Requirements = field(default_factory=Requirements)
     notes: str = ""
+    revision: str = ""
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip() or len(self.name) > 200:
@@ -351,6 +353,9 @@ class Design:
             raise DesignError(f"design.load: expected LedLoad, MotorLoad or None, got {type(self.load).__name__}")
         if not isinstance(self.notes, str):
             raise DesignError("design.notes: expected text")
+        if not isinstance(self.revision, str) or len(self.revision) > 2000:
+            raise DesignError(f"design.revision: {self.revision!r:.60} is not allowed; give text of at most "
+                              "2000 characters")
 
     # -- convenience -------------------------------------------------------------------------
     @property
@@ -448,6 +453,7 @@ def demo_designs() -> dict[str, Design]:
         requirements=Requirements(frequency=6e3, frequency_tolerance=0.25, duty_min=0.05, duty_max=0.95,
                                   flicker="no-effect"),
         notes="LED grow-bar dimmer for a 12 V greenhouse propagator (demo values).",
+        revision="rev A: first demo build (demo values)",
     )
     fan = Design(
         name="fan",
@@ -464,5 +470,6 @@ def demo_designs() -> dict[str, Design]:
         t_ambient_max_c=45.0,
         requirements=Requirements(frequency=30e3, frequency_tolerance=0.3, duty_min=0.2, duty_max=0.9),
         notes="Ventilation-fan speed control for the same propagator (demo values).",
+        revision="rev A: first demo build (demo values)",
     )
     return {"grow-bar": grow, "fan": fan}

@@ -106,7 +106,9 @@ class WaveformPlot:
         out_label = f"timer output ({level:.3g} V high)"
         if out_label != self._out_label:
             self._out_label = out_label
-            self.legend.items[0].label = out_label
+            from bokeh.core.properties import value
+
+            self.legend.items[0].label = value(out_label)
         factor, unit = time_scale(float(data["t"][-1]))
         data["t"] = data["t"] / factor
         self.source.data = data

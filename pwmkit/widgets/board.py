@@ -64,19 +64,33 @@ def load_bokehjs() -> bool:
 
 
 def _header_html(design: Design, evaluation: Any) -> str:
+    from .. import glossary as g
     from ..checks.findings import severity_style
+    from ..numstyle import screen
 
     f = evaluation.findings
     parts = []
     for sev, n in (("fail", f.fail_count), ("warn", f.warn_count), ("ok", f.ok_count)):
-        colour, symbol, word = severity_style(sev)
-        parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px'>"
-                     f"{symbol} {n} {esc(word)}</span>")
-    load = "no load" if design.load is None else f"{design.load.kind} load"
-    return (f"<div class='pwmkit-header' style='display:flex;gap:16px;align-items:baseline;flex-wrap:wrap'>"
+        colour, symbol, _word = severity_style(sev)
+        parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px;white-space:nowrap'>"
+                     f"{symbol} {esc(g.severity_count(sev, n))}</span>")
+    load = g.load_label(None if design.load is None else design.load.kind)
+    load = load if design.load is None else f"{load} load"
+    return (f"<div class='pwmkit-header' style='display:flex;gap:4px 16px;align-items:baseline;flex-wrap:wrap'>"
             f"<span style='font-size:16px;font-weight:700'>{esc(design.name)}</span>"
-            f"<span style='color:#5a6270'>{esc(design.timing.topology)} astable · {esc(design.timing.timer)} timer · "
-            f"{design.vcc:.3g} V · {esc(load)}</span><span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
+            f"<span style='color:#5a6270'>{esc(g.topology_label(design.timing.topology))} astable · "
+            f"{esc(g.timer_label(design.timing.timer))} timer · {esc(screen(design.vcc, 'V'))} · {esc(load)}</span>"
+            f"<span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
+
+
+#: Layout rules of the dashboard (fit at 1280 px: the readout and the waveform stay together).
+DASHBOARD_CSS = """<style>
+.pwmkit-dashboard {max-width:100%; overflow:hidden}
+.pwmkit-dashboard .pwmkit-main {gap:8px 20px}
+.pwmkit-dashboard .pwmkit-views {min-width:0}
+.pwmkit-downloads .widget-hbox {gap:4px 12px}
+.pwmkit-dashboard .widget-html-content, .pwmkit-dashboard .widget-htmlmath-content {white-space:normal}
+</style>"""
 
 
 class Dashboard(w.VBox):
@@ -97,8 +111,8 @@ class Dashboard(w.VBox):
         self.session = as_session(design)
         s = self.session
         self.header = w.HTML()
-        self.cautions = CautionsBox(s, collapsed=True)
-        self.timing = TimingPanel(s)
+        self.cautions = CautionsBox(s, collapsed=False)  # once per view, open on first display
+        self.timing = TimingPanel(s, show_readout=False)
         self.waveforms = WaveformPanel(s, show_cautions=False)
         self.pot_travel = PotTravelPanel(s)
         self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
@@ -114,10 +128,20 @@ class Dashboard(w.VBox):
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
-        self.timing.layout.width = "560px"
-        self.timing.layout.min_width = "560px"
-        top = w.HBox([self.timing, self.waveforms], layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
-        super().__init__([self.header, self.cautions, top, self.tabs])
+        self.timing.layout.width = "440px"
+        self.timing.layout.min_width = "440px"
+        # the main readout sits with the waveforms; controls beside them when the width allows,
+        # else the readout and the waveforms come first (wrap-reverse) so both stay in view
+        views = w.VBox([self.timing.readout, self.waveforms])
+        views.add_class("pwmkit-views")
+        top = w.HBox([self.timing, views],
+                     layout=w.Layout(flex_flow="row wrap-reverse", justify_content="flex-start",
+                                     align_items="flex-end"))
+        top.add_class("pwmkit-main")
+        from .downloads import DownloadsBar
+
+        self.downloads = DownloadsBar(s)
+        super().__init__([w.HTML(DASHBOARD_CSS), self.header, self.cautions, top, self.tabs, self.downloads])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")
@@ -194,7 +218,7 @@ class Dashboard(w.VBox):
 
     def flush(self) -> None:
         """Run debounced work (schematic, formulas, spread re-run) now."""
-        for panel in (self.schematic, self.formulas, self.spread):
+        for panel in (self.schematic, self.formulas, self.spread, self.downloads):
             if panel is not None:
                 panel.flush()
 
@@ -252,5 +276,8 @@ def dashboard(design: Design | DesignSession, *, debounce: float = 0.3) -> Dashb
     >>> dash = dashboard(demo_designs()["grow-bar"])   # doctest: +SKIP
     >>> dash                                            # doctest: +SKIP
     """
+    from .downloads import load_page_helpers
+
     load_bokehjs()
+    load_page_helpers()
     return Dashboard(design, debounce=debounce)
