@@ -245,9 +245,8 @@ def finding_value_text(x: float | None, unit: str) -> str:
 
 
 def _findings(evaluation: Any) -> str:
-    from ..checks import severity_style
-
     from .. import glossary as g
+    from ..checks import severity_style
 
     fs = evaluation.findings
     order = {"fail": 0, "warn": 1, "ok": 2}

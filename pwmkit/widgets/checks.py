@@ -7,7 +7,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import Panel, esc, fmt, num, safe_callback
+from ._base import Panel, esc, safe_callback
 from .session import DesignSession, as_session
 
 __all__ = ["FindingsPanel", "CautionsBox", "findings_html", "cautions_html"]

@@ -32,7 +32,7 @@ import traitlets
 
 from ._base import log
 
-__all__ = ["PageTabs", "LivePlot", "live_plot"]
+__all__ = ["PageTabs", "live_plot"]  # LivePlot: module attribute made on first use (see __getattr__)
 
 TABS_CSS = """<style>
 .pwmkit-tabbar .widget-toggle-button {width:auto; min-width:0; padding:0 12px; margin:0 2px 0 0;

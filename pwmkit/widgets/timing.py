@@ -10,7 +10,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import DASH, GENERIC_MESSAGE, Panel, esc, fmt, fmt_pct, log, safe_callback
+from ._base import DASH, GENERIC_MESSAGE, Panel, esc, log, safe_callback
 from .entry import SNAP_CHOICES, ValueEntry
 from .session import DesignSession, as_session
 

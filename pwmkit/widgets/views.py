@@ -57,8 +57,24 @@ class WaveformPanel(Panel):
 
     @safe_callback
     def refresh(self, evaluation: Any) -> None:
-        self.plot.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor, cycles=self.cycles)
+        self.plot.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor, cycles=self.cycles,
+                         v_out_high=output_high_level(self.session.design, evaluation))
         self.clear_message()
+
+
+def output_high_level(design: Design, evaluation: Any) -> float:
+    """The timer's output-high level: the gate-drive model's level when it ran, else the family's [V].
+
+    The waveform draws the output at this level so that it agrees with the gate drive shown
+    beside it (a bipolar timer's output sits about 1.35 V below the supply — typical value, check
+    your part's data sheet).
+    """
+    gate = getattr(evaluation, "gate", None)
+    if gate is not None:
+        return float(gate.v_gate_on)
+    from ..parts.timers import get_timer
+
+    return float(get_timer(design.timing.timer).output_high(design.vcc))
 
 
 class PotTravelPanel(Panel):
@@ -92,23 +108,27 @@ class PotTravelPanel(Panel):
         wiper = self.session.design.timing.wiper
         self.plot.update(travel, evaluation.timing, wiper)
         (d0, d1), (f0, f1) = travel.duty_range, travel.frequency_range
-        self.note.value = (f"<span class='pwmkit-q'>Duty reaches {num(100 * d0, '.3g')} … {num(100 * d1, '.4g')} % while the "
-                           f"frequency moves {esc(fmt(f0, 'Hz'))} … {esc(fmt(f1, 'Hz'))}.</span>")
+        from ..numstyle import screen_range
+
+        self.note.value = (f"<span class='pwmkit-q'>Duty reaches {esc(screen_range(d0, d1, 'duty'))} while the "
+                           f"frequency moves {esc(screen_range(f0, f1, 'Hz'))}.</span>")
         self.plot_box.layout.display = None
         self.clear_message()
 
 
 def flicker_html(flicker: Any, required: str | None) -> str:
     """Summary lines of a :class:`pwmkit.loads.flicker.PwmFlicker` and the requirement."""
+    from ..glossary import flicker_label
+
     klass = flicker.classification
     req = ""
     if required is not None:
         order = ("no-effect", "low-risk", "elevated")
         met = order.index(klass) <= order.index(required)
-        req = (f"<br>Requirement: <b>{esc(required)}</b> — "
+        req = (f"<br>Requirement: <b>{esc(flicker_label(required))}</b> — "
                f"{'✔ met' if met else '✖ not met'}")
     return (f"<div class='pwmkit-flicker-summary' style='font-size:13px'>IEEE 1789 region of the design point: "
-            f"<b class='pwmkit-flicker-class'>{esc(klass.replace('-', ' '))}</b> "
+            f"<b class='pwmkit-flicker-class'>{esc(flicker_label(klass))}</b> "
             f"({num(flicker.modulation_percent, '.3g')} % modulation at {esc(fmt(flicker.frequency, 'Hz'))}, "
             f"flicker index {num(flicker.flicker_index, '.3g')}). Full on/off PWM has no observable effect above "
             f"{esc(fmt(flicker.frequency_for_no_effect, 'Hz'))}.{req}</div>")

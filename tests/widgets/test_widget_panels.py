@@ -4,6 +4,7 @@ demand, lazy tabs, debounced extras, contained failures, light imports."""
 from __future__ import annotations
 
 import asyncio
+import html
 import subprocess
 import sys
 
@@ -156,9 +157,13 @@ def test_loads_panel_led(grow):
     panel = LoadsPanel(grow)
     ev = panel.session.evaluation
     assert "LED string" in panel.load_html.value
-    assert f"{ev.led.n_parallel} × {ev.led.n_series}" in panel.load_html.value
-    # CIE 15 L*: 10 even steps from L* = 10 need 1.13 % duty for the first (lightness module check)
-    assert "1.13 %" in panel.steps_html.value
+    assert f"{ev.led.n_parallel} strings × {ev.led.n_series} LEDs" in panel.load_html.value
+    # the rating is the part's rating and the derated limit it is used to (IEC 60115-1 linear derating
+    # from 70 °C to 155 °C; 40 °C upper ambient → full rating; 2× margin, common practice)
+    assert f"{ev.led.resistor_rating:.3g} W part, derated limit {0.5 * ev.led.resistor_rating:.3g} W at 40 °C" \
+        in panel.load_html.value
+    # CIE 15 L*: 10 even steps from L* = 10 need Y = ((10 + 16)/116)³ = 1.126 % duty for the first
+    assert "1.126 %" in panel.steps_html.value
     powers = panel.losses.source.data["power"]
     # the axis takes the prefix of the largest term (a few hundred µW here), as the total beside it
     assert panel.losses.figure.xaxis.axis_label == "power [µW]"
@@ -192,12 +197,17 @@ def test_findings_say_severity_in_words_and_symbols(grow):
 
 def test_formulas_render_and_copy(grow):
     panel = FormulasPanel(grow)
-    assert panel.math.value.startswith("$$") and "t_{\\mathrm{high}}" in panel.math.value
+    assert "$$" in panel.math.value and "t_{\\mathrm{high}}" in panel.math.value
+    assert "\\begin{aligned}" in panel.math.value  # broken at its factors, so it fits a column
     assert panel.text.value.startswith("\\documentclass")
     panel.format.value = "python"
     assert "def t_high(" in panel.text.value
     panel.quantity.value = "duty"
     assert "D = " in panel.math.value
+    # one copy button per format, each carrying that format's whole sheet
+    for key in ("latex", "markdown", "python", "c", "unicode"):
+        assert f"data-format='{key}'" in panel.copy.value
+    assert html.escape(panel.sheets["python"]) in panel.copy.value
 
 
 def test_schematic_redraw_is_debounced_on_a_running_loop(grow):
