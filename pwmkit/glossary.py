@@ -25,7 +25,8 @@ __all__ = [
     "EXACT", "ESTIMATE", "ESTIMATE_NOTE", "EXACT_NOTE", "DIFFERENCE", "POINTS", "POINTS_LONG", "SOURCE",
     "TIMER_LABELS", "LOAD_LABELS", "TOPOLOGY_LABELS", "FLICKER_LABELS", "FIELD_LABELS", "FIELD_EXAMPLES",
     "BOUND_WORDS", "SEVERITY_WORDS", "bound_word", "plural", "condition", "rating_text", "label",
-    "timer_label", "load_label", "topology_label", "flicker_label", "field_label", "field_examples",
+    "timer_label", "load_label", "topology_label", "DIODE_LABELS", "MOSFET_LABELS", "diode_label", "mosfet_label",
+    "timer_part_label", "flicker_label", "field_label", "field_examples",
     "source_label", "severity_count",
 ]
 
@@ -50,6 +51,17 @@ TOPOLOGY_LABELS: Mapping[str, str] = MappingProxyType({
     "bypass": "bypass diode",
     "steered": "two steering diodes",
     "pot": "pot-steered",
+})
+#: Part families in words, as the schematic and the parts list label them.
+DIODE_LABELS: Mapping[str, str] = MappingProxyType({
+    "small-signal-silicon": "small-signal Si diode",
+    "small-schottky": "small Schottky diode",
+    "schottky-1a": "1 A Schottky diode",
+    "fast-recovery-1a": "1 A fast-recovery diode",
+})
+MOSFET_LABELS: Mapping[str, str] = MappingProxyType({
+    "logic-level-30v": "logic-level N-MOSFET 30 V",
+    "standard-level-60v": "standard-level N-MOSFET 60 V",
 })
 #: IEEE Std 1789-2015 regions in words.
 FLICKER_LABELS: Mapping[str, str] = MappingProxyType({
@@ -209,6 +221,28 @@ def load_label(kind: str | None) -> str:
     ('LED', 'no load')
     """
     return "no load" if kind is None else label(LOAD_LABELS, kind)
+
+
+def diode_label(family: str) -> str:
+    """Human label of a diode family.
+
+    >>> diode_label("schottky-1a")
+    '1 A Schottky diode'
+    """
+    return label(DIODE_LABELS, family)
+
+
+def mosfet_label(family: str) -> str:
+    return label(MOSFET_LABELS, family)
+
+
+def timer_part_label(family: str) -> str:
+    """The timer as a part: ``"CMOS 555-type"``.
+
+    >>> timer_part_label("bipolar")
+    'bipolar 555-type'
+    """
+    return f"{timer_label(family)} 555-type"
 
 
 def topology_label(topology: str) -> str:

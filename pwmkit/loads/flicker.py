@@ -75,7 +75,7 @@ class FlickerRegion:
 
 
 _SOURCE = ("IEEE Std 1789-2015 recommended practices RP1/RP2 (coefficients from a secondary summary, "
-           "consistent with memory of the standard's figure)")
+           "check the figures against the standard)")
 #: RP1: low risk of flicker effects.
 LOW_RISK = FlickerRegion("low-risk", 0.025, 0.08, 90.0, 1250.0, _SOURCE)
 #: RP2: no observable effect level (NOEL).

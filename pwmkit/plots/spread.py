@@ -31,7 +31,7 @@ _EMPTY_LINE: dict[str, list[float]] = {"x": []}
 
 
 class SpreadPlot:
-    """Two histograms (frequency, duty) of a Monte Carlo run.
+    """Two histograms (frequency above duty) of a Monte Carlo run.
 
     Drawn on each histogram and named in its legend (right of the data area): the worst-case band
     (hatched, orange), the requirement window edges (green solid lines) and the nominal value
@@ -45,8 +45,8 @@ class SpreadPlot:
     bands, windows, nominals : dict of ColumnDataSource per key (worst case x0/x1, window x, nominal x)
     """
 
-    def __init__(self, *, width: int = 470, height: int = 240) -> None:
-        from bokeh.layouts import row
+    def __init__(self, *, width: int = 640, height: int = 210) -> None:
+        from bokeh.layouts import column
         from bokeh.models import ColumnDataSource
 
         self.sources: dict[str, Any] = {}
@@ -72,7 +72,7 @@ class SpreadPlot:
                                  ("requirement window", [edges]), ("nominal", [nom])])
             self.sources[key], self.figures[key] = src, fig
             self.bands[key], self.windows[key], self.nominals[key] = band, window, nominal
-        self.layout = row(self.figures["frequency"], self.figures["duty"])
+        self.layout = column(self.figures["frequency"], self.figures["duty"])  # stacked: fits a 1280 px window
 
     def update(self, spread: Any, worst_case: Any = None) -> None:
         """Show a :class:`pwmkit.tolerance.SpreadResult` and optionally a ``WorstCaseResult``."""

@@ -26,7 +26,7 @@ class PotTravelPlot:
     marker : ColumnDataSource "pwmkit-pot-marker" (wiper [%], duty [%], frequency)
     """
 
-    def __init__(self, *, width: int = 430, height: int = 240) -> None:
+    def __init__(self, *, width: int = 390, height: int = 260) -> None:
         from bokeh.layouts import row
         from bokeh.models import ColumnDataSource, Legend
 

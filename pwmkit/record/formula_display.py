@@ -75,7 +75,8 @@ def worked_screen(design: Design, quantity: str = "t_high") -> str:
         block = expression_lines(w["expr"], lhs)
         symbols = sorted(w["expr"].free_symbols, key=lambda s: s.name)
         rows = "".join(
-            f"<tr><td>\\({_symbol_tex(s)}\\)</td><td class='pwmkit-q'>"
+            f"<tr><td style='padding:1px 12px 1px 0;white-space:nowrap;min-width:3.5em'>\\({_symbol_tex(s)}\\)</td>"
+            f"<td class='pwmkit-q' style='padding:1px 0;white-space:nowrap'>"
             f"{html.escape(screen(w['values'][s], _SYMBOL_KIND.get(s.name, '')) if _SYMBOL_KIND.get(s.name) else screen(w['values'][s], 'ratio').replace(' ×', ''))}"
             f"</td></tr>" for s in symbols)
     else:

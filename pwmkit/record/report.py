@@ -214,7 +214,7 @@ def _spread(evaluation: Any) -> str:
     items = [f"{g.plural(sp.n, 'sample')} (seed {sp.seed})"
              + (f", {g.plural(sp.n_failed, 'sample')} do not oscillate" if sp.n_failed else ""),
              f"frequency {screen(sp.frequency_mean, 'Hz')} ± {screen(sp.frequency_std, 'Hz', 3)} (mean ± σ)",
-             f"duty {screen(sp.duty_mean, 'duty')} ± {screen(sp.duty_std, 'points')} (mean ± σ)"]
+             f"duty {screen(sp.duty_mean, 'duty')} ± {screen(sp.duty_std, 'points').lstrip('+')} (mean ± σ)"]
     if sp.yield_ is not None:
         items.append(f"yield inside the requirement window: {screen(sp.yield_, 'duty')}")
     wc = evaluation.worst_case

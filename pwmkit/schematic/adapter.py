@@ -25,8 +25,11 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     -------
     Schematic
     """
+    from ..glossary import diode_label, mosfet_label, timer_part_label
+
     t = design.timing
-    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass)
+    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass,
+                              diode_part=diode_label(t.diode), timer_part=timer_part_label(t.timer))
     if t.topology == "pot":
         kw.update(pot=t.pot, wiper=t.wiper)
     if t.vctl is not None:
@@ -36,12 +39,14 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     load = design.load
     if load is not None:
         kw["r_gate"] = design.switch.r_gate
+        kw["mosfet_part"] = mosfet_label(design.switch.mosfet)
         if design.v_load is not None:
             kw["v_load"] = design.v_load
         if load.kind == "led":
             kw.update(load="led", n_series=load.n_series, n_parallel=load.n_parallel, r_led=load.r_series)
         else:
-            kw.update(load="motor", clamp=design.freewheel.clamp)
+            kw.update(load="motor", clamp=design.freewheel.clamp,
+                      freewheel_part=f"freewheel {diode_label(design.freewheel.diode)}")
             if design.freewheel.clamp == "zener":
                 kw["v_zener"] = design.freewheel.v_zener
     if annotate:

@@ -89,6 +89,8 @@ DASHBOARD_CSS = """<style>
 .pwmkit-dashboard .pwmkit-main {gap:8px 20px}
 .pwmkit-dashboard .pwmkit-views {min-width:0}
 .pwmkit-downloads .widget-hbox {gap:4px 12px}
+.pwmkit-dashboard .widget-toggle-buttons {flex-wrap:wrap; max-width:100%; height:auto}
+.pwmkit-dashboard .widget-toggle-buttons .widget-toggle-button {margin-bottom:2px}
 .pwmkit-dashboard .widget-html-content, .pwmkit-dashboard .widget-htmlmath-content {white-space:normal}
 </style>"""
 

@@ -58,7 +58,7 @@ class FormulasPanel(Panel):
         self.math.add_class("pwmkit-formula")
         self.copy = w.HTML()
         self.copy.add_class("pwmkit-copy-buttons")
-        self.text = w.Textarea(layout=w.Layout(width="100%", height="220px"))
+        self.text = w.Textarea(layout=w.Layout(width="calc(100% - 6px)", height="220px"))  # 2 px margins
         self.text.add_class("pwmkit-formula-text")
         hint = w.HTML("<span style='font-size:11px;color:#5a6270'>Each copy button puts the whole formula sheet of "
                       "this design (every timing quantity, full precision) on the clipboard; the box shows the "

@@ -28,7 +28,7 @@ def spread_summary_html(spread: Any, worst: Any) -> str:
         ("samples", screen(spread.n, "count") + (f" ({plural(spread.n_failed, 'sample')} do not oscillate)"
                                                  if spread.n_failed else "")),
         ("frequency mean ± σ", f"{screen(spread.frequency_mean, 'Hz')} ± {screen(spread.frequency_std, 'Hz', 3)}"),
-        ("duty mean ± σ", f"{screen(spread.duty_mean, 'duty')} ± {screen(spread.duty_std, 'points')}"),
+        ("duty mean ± σ", f"{screen(spread.duty_mean, 'duty')} ± {screen(spread.duty_std, 'points').lstrip('+')}"),
     ]
     if worst is not None:
         rows += [
