@@ -77,14 +77,17 @@ def screen(x: Any, kind: str, digits: int | None = None) -> str:
     ('5.624 kHz', '49.13 %', '-0.871 pt')
     >>> screen(-0.1252, "relative"), screen(45.119, "°C"), screen(20000, "count"), screen(None, "V")
     ('-12.5 %', '45.1 °C', '20 000', '—')
+    >>> screen(0.0004988, "%"), screen(0.5, "wiper")
+    ('< 0.001 %', '50 %')
     """
     v = _finite(x)
     if v is None:
         return _DASH
-    if kind in ("duty", "wiper"):
-        return f"{_sig(100.0 * v, digits or SCREEN_DIGITS)} %"
-    if kind == "%":
-        return f"{_sig(v, digits or SCREEN_DIGITS)} %"
+    if kind in ("duty", "wiper", "%"):
+        pct = 100.0 * v if kind != "%" else v
+        if 0 < abs(pct) < 0.001:  # below a thousandth of a percent the digits say nothing on screen
+            return f"{'-' if pct < 0 else ''}< 0.001 %"
+        return f"{_sig(pct, digits or SCREEN_DIGITS)} %"
     if kind == "relative":
         text = _sig(100.0 * v, digits or 3)
         return f"{'+' if v > 0 else ''}{text} %"
@@ -98,7 +101,7 @@ def screen(x: Any, kind: str, digits: int | None = None) -> str:
     if kind == "rpm":
         return f"{_sig(v, digits or SCREEN_DIGITS)} rpm"
     if kind == "count":
-        return f"{int(round(v)):,}".replace(",", "\u2009" if False else " ")
+        return f"{int(round(v)):,}".replace(",", " ")
     from .values import format_value
 
     return format_value(v, kind, digits or SCREEN_DIGITS)

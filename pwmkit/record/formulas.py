@@ -26,6 +26,7 @@ from typing import Any
 
 from ..design import Design
 from ..errors import DesignError
+from ..glossary import timer_label
 
 __all__ = ["QUANTITIES", "FORMATS", "formula", "symbol_table", "worked", "formula_sheet", "design_variant",
            "evaluate_expression"]
@@ -443,7 +444,7 @@ def _sheet_intro(design: Design, discharge: str, control: str) -> list[str]:
     t = design.timing
     return [
         f"Design: {_one_line(design.name)}",
-        f"Topology: {_TOPOLOGY_WORDS[t.topology]}; timer family: {t.timer}",
+        f"Topology: {_TOPOLOGY_WORDS[t.topology]}; timer family: {timer_label(t.timer)}",
         f"Model: {_DISCHARGE_WORDS[discharge]}; {_CONTROL_WORDS[control]}; steering diodes as a constant drop V_d.",
         "Numbers in SI units (Ω, F, V, s, Hz); derived with sympy from the RC threshold-crossing law "
         f"(pwmkit {pwmkit.__version__}). Verify on the bench.",
