@@ -14,7 +14,7 @@ __all__ = ["PotTravelPlot"]
 class PotTravelPlot:
     """Two plots over the wiper travel 0 … 100 %: duty [%] (left) and frequency (right, engineering unit).
 
-    Exact model: solid blue; textbook ln 2 form: dashed orange; the current wiper: a black
+    Exact model: solid blue; the 0.693 estimate: dashed orange; the current wiper: a black
     diamond on each exact curve. The curves are re-sent only when they change (a wiper move
     changes only the marker).
 

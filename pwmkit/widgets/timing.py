@@ -1,5 +1,5 @@
 """Timing panel: topology, component values (text + slider, optional E-series snap), supply, timer
-family, steering diode; readouts of the exact and the textbook (ln 2) timing side by side."""
+family, steering diode; the readout of the exact model beside the 0.693 estimate."""
 
 from __future__ import annotations
 
