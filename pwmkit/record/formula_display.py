@@ -91,7 +91,7 @@ def worked_screen(design: Design, quantity: str = "t_high") -> str:
     return (f"<div class='pwmkit-worked'><div style='color:#5a6270;font-size:12px'>{html.escape(meaning)}</div>"
             f"$$ {block} $$"
             f"<table class='pwmkit-worked-numbers' style='font-size:12px;border-collapse:collapse'>"
-            f"<caption style='text-align:left;color:#5a6270'>with this design's numbers (SI units)</caption>{rows}"
+            f"<caption style='text-align:left;color:#5a6270;white-space:nowrap'>with this design's numbers (SI units)</caption>{rows}"
             f"</table><div class='pwmkit-worked-result' style='font-size:14px;margin-top:4px'>"
             f"<b>\\({lhs} = \\) {html.escape(result)}</b></div></div>")
 

@@ -106,7 +106,7 @@ def copy_buttons_html(sheets: dict[str, str]) -> str:
     """One copy-to-clipboard button per format; each copies the whole formula sheet in that format."""
     buttons = "".join(
         f"<button type='button' class='pwmkit-copy' data-format='{key}' data-label='{html.escape(label)}' "
-        f"onclick=\"{_COPY_JS}\" style='margin:0 6px 4px 0;padding:2px 10px;cursor:pointer'>⧉ copy "
+        f"onclick=\"{_COPY_JS}\" style='margin:0 6px 4px 0;padding:2px 10px;cursor:pointer'>Copy "
         f"{html.escape(label)}</button>" for label, key in _FORMATS)
     stores = "".join(f"<textarea data-format='{key}' hidden aria-hidden='true'>{html.escape(sheets[key])}</textarea>"
                      for _label, key in _FORMATS)

@@ -69,7 +69,8 @@ class SpreadPanel(Panel):
 
         self.session = as_session(design)
         self.run = w.Button(description="Run Monte Carlo", icon="play", button_style="",
-                            tooltip="sample every tolerance, the supply range and the ambient range")
+                            tooltip="sample every tolerance, the supply range and the ambient range",
+                            layout=w.Layout(width="auto", min_width="150px"))
         self.run.add_class("pwmkit-run-spread")
         self.samples = w.Dropdown(options=(("2 000 samples", 2000), ("20 000 samples", 20_000),
                                            ("100 000 samples", 100_000)),
@@ -89,7 +90,7 @@ class SpreadPanel(Panel):
         self.bokeh = live_plot(self.plot.layout, "pwmkit-plot", "pwmkit-plot-spread")
         self._debounced = Debouncer(self._run_safely, debounce)
         self.set_body([w.HBox([self.run, self.samples, self.follow, self.status],
-                              layout=w.Layout(align_items="center")), self.summary, self.bokeh])
+                              layout=w.Layout(align_items="center", flex_flow="row wrap")), self.summary, self.bokeh])
         self.run.on_click(lambda _b: self._run_safely())
         self.samples.observe(self._on_samples, names="value")
         self.follow.observe(self._on_follow, names="value")

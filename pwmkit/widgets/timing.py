@@ -140,9 +140,12 @@ class TimingPanel(Panel):
                                 style={"description_width": "40px"})
         from ..parts.diodes import DIODES
 
-        diodes = tuple(DIODES)
-        if t.diode not in diodes:
-            diodes = (t.diode, *diodes)
+        from ..glossary import diode_label
+
+        families = tuple(DIODES)
+        if t.diode not in families:
+            families = (t.diode, *families)
+        diodes = tuple((diode_label(k), k) for k in families)
         self.diode = w.Dropdown(options=diodes, value=t.diode, description="diodes",
                                 layout=w.Layout(width="236px"), style={"description_width": "48px"})
         for ctl in (self.topology, self.snap, self.timer, self.diode):
@@ -224,7 +227,7 @@ class TimingPanel(Panel):
             with self.hold_sync():
                 self.topology.value = t.topology
                 self.timer.value = t.timer
-                if t.diode in self.diode.options:
+                if t.diode in [key for _label, key in self.diode.options]:
                     self.diode.value = t.diode
                 if t.topology == "pot":
                     self.wiper.value = 100.0 * float(t.wiper)

@@ -213,6 +213,67 @@ def _compare_with_reference(png: bytes, name: str) -> None:
     assert diff <= TOLERANCE, f"{name}: differs from its reference by {diff:.2f} grey levels (limit {TOLERANCE})"
 
 
+def _bad_value_is_marked_at_the_field(page, dash) -> None:
+    """A value that cannot be read: message right under its field, field styled and aria-invalid."""
+    from playwright.sync_api import expect
+
+    entry = dash.locator(".pwmkit-entry-c").first
+    field = entry.locator("input").first
+    field.scroll_into_view_if_needed()
+    readout = dash.locator(".pwmkit-readout td[data-q='frequency'][data-kind='exact']")
+    good = readout.inner_text()
+    field.fill("10q")
+    field.press("Enter")
+    message = entry.locator(".pwmkit-field-msg")
+    expect(message).to_be_visible(timeout=20_000)
+    expect(message).to_contain_text("C (timing) [F]")
+    expect(message).to_contain_text("2n2, 100 nF")
+    expect(field).to_have_attribute("aria-invalid", "true", timeout=10_000)
+    assert field.get_attribute("aria-describedby") == "pwmkit-msg-c"
+    colour = field.evaluate("e => getComputedStyle(e).borderTopColor")
+    assert colour == "rgb(213, 94, 0)", colour  # the invalid style (Okabe–Ito vermillion border)
+    f_box, m_box = field.bounding_box(), message.bounding_box()
+    assert 0 <= m_box["y"] - (f_box["y"] + f_box["height"]) <= 12  # right under the field
+    # the other fields did not move: the message sits inside this entry, not at the top of the panel
+    assert readout.inner_text() == good
+    field.fill("2n2")
+    field.press("Enter")
+    expect(message).to_be_hidden(timeout=20_000)
+    expect(field).not_to_have_attribute("aria-invalid", "true", timeout=10_000)
+
+
+def _copy_and_download(page, lab, dash) -> None:
+    """The copy buttons put each format's sheet on the clipboard; the design-file link holds the design."""
+    import base64
+
+    from playwright.sync_api import expect
+
+    from pwmkit.design import demo_designs
+    from pwmkit.record.designfile import design_to_toml
+    from pwmkit.record.formulas import formula_sheet
+
+    page.context.grant_permissions(["clipboard-read", "clipboard-write"], origin=lab.url)
+    dash.locator(".pwmkit-tabbar button", has_text="Formulas").first.click()
+    design = demo_designs()["grow-bar"]
+    for key, label in (("latex", "LaTeX"), ("python", "Python")):
+        button = dash.locator(f".pwmkit-copy[data-format='{key}']").first
+        button.scroll_into_view_if_needed()
+        button.click()
+        expect(button).to_contain_text("copied", timeout=10_000)
+        pasted = page.evaluate("() => navigator.clipboard.readText()")
+        assert pasted == formula_sheet(design, key), label
+    link = dash.locator(".pwmkit-design-file").first
+    href = link.get_attribute("href")
+    assert link.get_attribute("download") == "grow-bar.toml"
+    assert base64.b64decode(href.split(",", 1)[1]).decode("utf-8") == design_to_toml(design)
+    dash.locator(".pwmkit-build-report").first.click()
+    report = dash.locator(".pwmkit-report-file").first
+    expect(report).to_be_visible(timeout=120_000)
+    assert report.get_attribute("download") == "grow-bar-report.html"
+    page_html = base64.b64decode(report.get_attribute("href").split(",", 1)[1]).decode("utf-8")
+    assert "Design record — grow-bar" in page_html and "grow-bar.toml" in page_html
+
+
 def test_dashboard_text_fits_and_matches_the_reference_screenshots(lab, page, artifacts):
     from playwright.sync_api import expect
 
@@ -225,6 +286,9 @@ def test_dashboard_text_fits_and_matches_the_reference_screenshots(lab, page, ar
     dash.locator(".pwmkit-tabbar button", has_text="Spread").first.click()
     dash.locator(".pwmkit-run-spread").first.click()
     expect(dash.locator(".pwmkit-spread-status")).to_contain_text("current design", timeout=60_000)
+
+    _bad_value_is_marked_at_the_field(page, dash)
+    _copy_and_download(page, lab, dash)
 
     for width, height in ((1280, 900), (1600, 1000)):
         page.set_viewport_size({"width": width, "height": height})
