@@ -10,6 +10,9 @@ Subcommands:
     execute saved design notebooks again and report drift of their recorded key results.
 ``export DESIGN.toml --formulas/--bom/--report [FILE]``
     write the formula sheet, the bill of materials or the HTML report, inside ``--out-dir`` only.
+``find``, ``new NAME``
+    ranked part sets for a target; a design file and record notebook of your own
+    (:mod:`pwmkit.cli_design`).
 ``lab``
     copy the notebooks into a working folder and open JupyterLab on the design notebook (or, with
     no display, run it headless and write an HTML copy).
@@ -140,16 +143,18 @@ def _check(args: argparse.Namespace) -> int:
             code = max(code, 1)
         if args.json:
             report.append({"file": str(name), "name": design.name, "fail_count": fs.fail_count,
-                           "warn_count": fs.warn_count, "ok_count": fs.ok_count, "worst": fs.worst,
+                           "warn_count": fs.warn_count, "ok_count": fs.ok_count, "not_run_count": fs.not_run_count,
+                           "worst": fs.worst,
                            "key_results": ev.key_results(), "findings": fs.as_rows()})
             continue
         t = ev.timing
-        from .glossary import severity_count, topology_label
+        from .glossary import plural, severity_count, topology_label
         from .numstyle import screen
 
         print(f"{name} — {design.name}: {topology_label(design.timing.topology)} topology, "
               f"{screen(t.frequency, 'Hz')}, duty {screen(t.duty, 'duty')}; {severity_count('fail', fs.fail_count)}, "
-              f"{severity_count('warn', fs.warn_count)}, {severity_count('ok', fs.ok_count)}")
+              f"{severity_count('warn', fs.warn_count)}, {severity_count('ok', fs.ok_count)}"
+              + (f", {plural(fs.not_run_count, 'check')} not run (--quick)" if fs.not_run_count else ""))
         shown = [f for f in fs if f.severity != "ok"] if args.brief else list(fs)
         if shown:
             print(findings_table(shown))
@@ -249,6 +254,7 @@ def _lab(args: argparse.Namespace) -> int:
 
     folder = Path(args.dir)
     actions = nbs.copy_notebooks(folder, force=args.force, source=args.source)
+    actions += nbs.copy_examples(folder, force=args.force)  # the design files the notebook reads
     for a in actions:
         note = {"copied": "copied", "unchanged": "up to date", "replaced": "replaced (--force)",
                 "kept": "kept your edited copy (--force replaces it)"}[a.action]
@@ -277,6 +283,10 @@ def _lab(args: argparse.Namespace) -> int:
     html_path = main_nb.with_suffix(".html")
     atomic_write(html_path, nbs.notebook_html(run.notebook), force=True)
     print(f"HTML copy of the executed notebook: {html_path.resolve()}  [{run.seconds:.1f} s]")
+    import nbformat  # the executed notebook, with its recorded results, for `pwmkit rerun`
+
+    atomic_write(main_nb, nbformat.writes(run.notebook), force=True)
+    print(f"executed notebook with its recorded results: {main_nb.resolve()} (check it with: pwmkit rerun {main_nb})")
     for design_name, results in payloads_in_notebook(run.notebook).items():
         print(f"\nkey results of {design_name!r}:")
         width = max((len(k) for k in results), default=0)
@@ -361,7 +371,8 @@ def build_parser() -> argparse.ArgumentParser:
                                    "only. With no display ($DISPLAY, $WAYLAND_DISPLAY and $BROWSER unset on Linux) "
                                    "or with --headless, run the notebook and write an HTML copy instead.")
     p.add_argument("--dir", default="pwmkit-notebooks", help="working folder (default ./pwmkit-notebooks)")
-    p.add_argument("--force", action="store_true", help="replace edited copies with the packaged notebooks")
+    p.add_argument("--force", action="store_true",
+                   help="replace edited copies with the packaged notebooks and example design files")
     mode = p.add_mutually_exclusive_group()
     mode.add_argument("--headless", dest="headless", action="store_true", default=None,
                       help="run the design notebook and write HTML, do not start JupyterLab")
@@ -370,6 +381,10 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--timeout", type=_positive_float, default=600.0, help="seconds one cell may run (headless)")
     p.add_argument("--source", default=None, help=argparse.SUPPRESS)  # tests: another notebooks folder
     p.set_defaults(handler=_lab)
+
+    from .cli_design import add_commands  # find, new
+
+    add_commands(sub)
     return parser
 
 

@@ -21,10 +21,12 @@ from typing import Any, Literal
 from ._validate import quantity
 from .errors import DesignError
 
-__all__ = ["Requirements", "Timing", "LedLoad", "MotorLoad", "Switch", "Freewheel", "Design", "demo_designs"]
+__all__ = ["CRITERIA", "Requirements", "Timing", "LedLoad", "MotorLoad", "Switch", "Freewheel", "Design", "demo_designs"]
 
 _TOPOLOGIES = ("classic", "bypass", "steered", "pot")
 _DIELECTRICS = ("c0g", "x7r", "film", "electrolytic")
+#: Acceptance criteria of a requirement (see :class:`Requirements`).
+CRITERIA = ("worst-case", "yield")
 
 
 def _num(obj: Any, name: str, *, unit: str = "", optional: bool = False, **limits: Any) -> None:
@@ -63,6 +65,13 @@ class Requirements:
         the window a fixed duty must stay in [1]
     flicker : required IEEE Std 1789-2015 region for LED loads:
         "no-effect", "low-risk" or None
+    criterion : how the tolerance spread is judged against the frequency window and the duty
+        requirement: "worst-case" — every worst-case corner (parts, supply range, ambient range,
+        timer) must stay inside; "yield" — the Monte Carlo share inside must reach ``min_yield``
+    min_yield : the share of builds that must meet the requirement with ``criterion = "yield"`` [1]
+
+    The supply range and the ambient range the requirement must hold over are the design's
+    ``vcc_min … vcc_max`` and ``t_ambient_min_c … t_ambient_max_c``; the load is the design's load.
     """
 
     frequency: Any = None
@@ -71,6 +80,8 @@ class Requirements:
     duty_min: Any = None
     duty_max: Any = None
     flicker: str | None = None
+    criterion: str = "worst-case"
+    min_yield: Any = 0.99
 
     def __post_init__(self) -> None:
         _num(self, "frequency", unit="Hz", optional=True, minimum=0.0, min_inclusive=False)
@@ -82,6 +93,19 @@ class Requirements:
                               "allowed duty_min <= duty_max")
         if self.flicker is not None:
             _choice(self, "flicker", ("no-effect", "low-risk"))
+        _choice(self, "criterion", CRITERIA)
+        _num(self, "min_yield", minimum=0.0, maximum=1.0, min_inclusive=False)
+
+    @property
+    def frequency_window(self) -> tuple[float, float] | None:
+        """(low, high) required frequency [Hz], or None without a frequency requirement."""
+        if self.frequency is None:
+            return None
+        return (self.frequency * (1.0 - self.frequency_tolerance), self.frequency * (1.0 + self.frequency_tolerance))
+
+    def criterion_text(self) -> str:
+        """The acceptance criterion in words, e.g. ``"worst case"`` or ``"yield ≥ 99 %"``."""
+        return "worst case" if self.criterion == "worst-case" else f"yield ≥ {100 * self.min_yield:.4g} %"
 
 
 @dataclass(frozen=True)
@@ -433,8 +457,8 @@ def demo_designs() -> dict[str, Design]:
         resistors.
     ``"fan"``
         Ventilation-fan speed control: pot-steered bipolar timer above the
-        audible band, small brushed DC fan motor with a Schottky freewheel
-        diode.
+        audible band (every worst-case corner above 20 kHz), small brushed DC fan
+        motor with a Schottky freewheel diode.
     """
     grow = Design(
         name="grow-bar",
@@ -450,8 +474,8 @@ def demo_designs() -> dict[str, Design]:
         t_ambient_c=25.0,
         t_ambient_min_c=5.0,
         t_ambient_max_c=40.0,
-        requirements=Requirements(frequency=6e3, frequency_tolerance=0.25, duty_min=0.05, duty_max=0.95,
-                                  flicker="no-effect"),
+        requirements=Requirements(frequency=6e3, frequency_tolerance=0.3, duty_min=0.05, duty_max=0.95,
+                                  flicker="no-effect", criterion="worst-case"),
         notes="LED grow-bar dimmer for a 12 V greenhouse propagator (demo values).",
         revision="rev A: first demo build (demo values)",
     )
@@ -468,7 +492,8 @@ def demo_designs() -> dict[str, Design]:
         t_ambient_c=30.0,
         t_ambient_min_c=5.0,
         t_ambient_max_c=45.0,
-        requirements=Requirements(frequency=30e3, frequency_tolerance=0.3, duty_min=0.2, duty_max=0.9),
+        requirements=Requirements(frequency=31e3, frequency_tolerance=0.35, duty_min=0.2, duty_max=0.9,
+                                  criterion="worst-case"),
         notes="Ventilation-fan speed control for the same propagator (demo values).",
         revision="rev A: first demo build (demo values)",
     )

@@ -240,6 +240,9 @@ class Evaluation:
     spread, worst_case, sensitivity : tolerance results or None (quick mode)
     conditions : Conditions
     findings : Findings; cautions : tuple of Caution
+    requirement_spread : RequirementSpread or None — the spread judged against the requirements
+        (:func:`pwmkit.requirement_spread.requirement_spread`; None in quick mode or without a
+        frequency or duty requirement)
     """
 
     design: Any
@@ -267,6 +270,7 @@ class Evaluation:
     conditions: Conditions
     findings: Any
     cautions: tuple[Any, ...]
+    requirement_spread: Any = None
 
     # -- flat results -----------------------------------------------------------------------------
     def key_results(self) -> dict[str, float | str]:
@@ -284,6 +288,7 @@ class Evaluation:
         ``spread.duty_p01|p50|p99``, ``spread.frequency_std|n_failed|yield``;
         ``worst_case.frequency_min|frequency_max|duty_min|duty_max``;
         ``sensitivity.frequency.<parameter>`` (∂ln f/∂ln x), ``sensitivity.frequency_rel_std``;
+        ``requirements.frequency_low|frequency_high|duty_low|duty_high|frequency_yield|duty_yield``;
         ``findings.fail_count|warn_count|worst``.
         """
         out: dict[str, float | str] = {}
@@ -348,6 +353,12 @@ class Evaluation:
             for row in self.sensitivity.rows:
                 put(f"sensitivity.frequency.{row.name}", row.s_frequency)
             put("sensitivity.frequency_rel_std", self.sensitivity.frequency_rel_std)
+        rs = self.requirement_spread
+        if rs is not None:
+            group("requirements", rs, "frequency_low frequency_high duty_low duty_high")
+            for key in ("frequency_yield", "duty_yield"):
+                if getattr(rs, key) is not None:
+                    put(f"requirements.{key}", getattr(rs, key))
         put("findings.fail_count", float(self.findings.fail_count))
         put("findings.warn_count", float(self.findings.warn_count))
         put("findings.worst", self.findings.worst)
@@ -460,6 +471,18 @@ def _tolerance_part(design: Any, kw: dict[str, Any], n: int, seed: int) -> tuple
                         f"({', '.join(f'{k}: {v}' for k, v in mc.failure_reasons.items())})")
     stops = (mc is not None and mc.n_failed > 0) or any("does not oscillate" in n for n in notes)
     return results[0], results[1], results[2], "; ".join(notes) or None, stops
+
+
+def _requirement_part(design: Any, kw: dict[str, Any], n: int, seed: int) -> tuple[Any, str | None]:
+    """The spread judged against the requirements, or (None, why it could not be computed)."""
+    from .requirement_spread import duty_requirement, requirement_spread
+
+    if design.requirements.frequency is None and duty_requirement(design) is None:
+        return None, None
+    try:
+        return requirement_spread(design, kw, n=n, seed=seed), None
+    except DesignError as exc:
+        return None, f"requirement spread: {exc}"
 
 
 def _pot_travel(topology: str, kw: dict[str, Any]) -> PotTravel:
@@ -684,8 +707,13 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
             dl = diode_law_timing(t.topology, **kw, diode=t.diode, t_c=design.t_ambient_c)
         spread_res = worst = sens = spread_note = None
         stops = False
+        req_spread = None
         if spread and corners.error is None:
             spread_res, worst, sens, spread_note, stops = _tolerance_part(design, kw, int(n_mc), int(seed))
+            req_spread, note = _requirement_part(design, kw, int(n_mc), int(seed))
+            if note:
+                spread_note = f"{spread_note}; {note}" if spread_note else note
+                stops = stops or "does not oscillate" in note
         lo, hi = design.supply_range
         l_lo, l_hi = _load_supply_range(design)
         cond = Conditions(vcc=design.vcc, vcc_min=lo, vcc_max=hi, load_supply=design.load_supply, load_supply_min=l_lo,
@@ -695,7 +723,8 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
                           spread_stops=stops, quick=not spread)
         ev = Evaluation(design=design, timing=timing, ideal=ideal, diode_law=dl, pot_travel=travel,
                         timer_output=_timer_output(design, gate), gate=gate, corners=corners, spread=spread_res,
-                        worst_case=worst, sensitivity=sens, conditions=cond, findings=Findings(()), cautions=(), **p)
+                        worst_case=worst, sensitivity=sens, conditions=cond, findings=Findings(()), cautions=(),
+                        requirement_spread=req_spread, **p)
         ev = replace(ev, findings=run_checks(design, ev))
         ev = replace(ev, cautions=_cautions.cautions_for(design, ev))
     bad = [k for k, v in ev.key_results().items() if isinstance(v, float) and not math.isfinite(v)]

@@ -119,6 +119,7 @@ BOUND_WORDS: Mapping[str, str] = MappingProxyType({
 #: Severity → (singular, plural) in counts.
 SEVERITY_WORDS: Mapping[str, tuple[str, str]] = MappingProxyType({
     "fail": ("failure", "failures"), "warn": ("warning", "warnings"), "ok": ("passed", "passed"),
+    "not-run": ("not run", "not run"),
 })
 
 

@@ -27,11 +27,14 @@ from typing import Any, Literal, overload
 
 from ..errors import DesignError
 
-__all__ = ["SEVERITIES", "ORIGIN_KINDS", "Severity", "Finding", "Findings", "severity_style"]
+__all__ = ["SEVERITIES", "NOT_RUN", "ORIGIN_KINDS", "Severity", "Finding", "Findings", "severity_style"]
 
-Severity = Literal["ok", "warn", "fail"]
+Severity = Literal["ok", "warn", "fail", "not-run"]
 #: Severities in rising order.
 SEVERITIES: tuple[str, ...] = ("ok", "warn", "fail")
+#: Severity of a rule whose figures have not been computed yet (the tolerance analysis runs on
+#: demand): listed, never dropped, and not counted as ok, warn or fail.
+NOT_RUN = "not-run"
 #: Allowed origin tags (a standard is written ``"standard: <name and clause>"``).
 ORIGIN_KINDS: tuple[str, ...] = ("standard", "datasheet-generic", "common-practice", "from-memory")
 
@@ -40,6 +43,7 @@ _STYLE = {
     "ok": ("#009E73", "✓", "ok"),
     "warn": ("#E69F00", "!", "warning"),
     "fail": ("#D55E00", "✗", "fail"),
+    NOT_RUN: ("#7A7F87", "○", "not run"),
 }
 
 
@@ -95,8 +99,9 @@ class Finding:
     origin: str
 
     def __post_init__(self) -> None:
-        if self.severity not in SEVERITIES:
-            raise DesignError(f"severity: {self.severity!r} is not allowed; allowed: {', '.join(SEVERITIES)}")
+        if self.severity not in (*SEVERITIES, NOT_RUN):
+            raise DesignError(f"severity: {self.severity!r} is not allowed; allowed: {', '.join(SEVERITIES)}, "
+                              f"{NOT_RUN}")
         for name in ("value", "limit"):
             v = getattr(self, name)
             if v is not None:
@@ -218,9 +223,14 @@ class Findings(Sequence[Finding]):
         return self._count("ok")
 
     @property
+    def not_run_count(self) -> int:
+        """Number of rules whose figures have not been computed yet (see :data:`NOT_RUN`)."""
+        return self._count(NOT_RUN)
+
+    @property
     def worst(self) -> str:
-        """The worst severity present (``"ok"`` when empty)."""
-        return max((f.severity for f in self._items), key=SEVERITIES.index, default="ok")
+        """The worst severity present among ok, warn and fail (``"ok"`` when empty)."""
+        return max((f.severity for f in self._items if f.severity != NOT_RUN), key=SEVERITIES.index, default="ok")
 
     def by_id(self, rule_id: str) -> Finding | None:
         """The finding of rule ``rule_id``, or None when the rule did not apply to this design.
@@ -241,8 +251,8 @@ class Findings(Sequence[Finding]):
 
     def of_severity(self, severity: str) -> Findings:
         """The findings with one severity."""
-        if severity not in SEVERITIES:
-            raise DesignError(f"severity: {severity!r} is not allowed; allowed: {', '.join(SEVERITIES)}")
+        if severity not in (*SEVERITIES, NOT_RUN):
+            raise DesignError(f"severity: {severity!r} is not allowed; allowed: {', '.join(SEVERITIES)}, {NOT_RUN}")
         return Findings(f for f in self._items if f.severity == severity)
 
     def as_rows(self) -> list[dict[str, Any]]:
@@ -258,7 +268,7 @@ class Findings(Sequence[Finding]):
 
     def to_html(self, compact: bool = False) -> str:
         """HTML table, failures first; ``compact`` folds the ``ok`` findings into one row of titles."""
-        order = sorted(self._items, key=lambda f: -SEVERITIES.index(f.severity))
+        order = sorted(self._items, key=lambda f: -SEVERITIES.index(f.severity) if f.severity in SEVERITIES else 1)
         shown = [f for f in order if not (compact and f.severity == "ok")]
         body = "".join(_row_html(f) for f in shown)
         if compact and self.ok_count:
@@ -269,6 +279,7 @@ class Findings(Sequence[Finding]):
         head = ("<tr><th>severity</th><th>rule</th><th>value</th><th>limit</th>"
                 "<th>finding and remedy</th></tr>")
         caption = (f"design-rule checks — {self.fail_count} fail, {self.warn_count} warning"
-                   f"{'' if self.warn_count == 1 else 's'}, {self.ok_count} ok")
+                   f"{'' if self.warn_count == 1 else 's'}, {self.ok_count} ok"
+                   + (f", {self.not_run_count} not run" if self.not_run_count else ""))
         return (f"<table class='pwmkit-findings' style='border-collapse:collapse'>"
                 f"<caption style='text-align:left;font-weight:600'>{caption}</caption>{head}{body}</table>")

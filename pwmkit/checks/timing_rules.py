@@ -23,7 +23,6 @@ _DIS_WARN_FRACTION = 0.5  # warn above half the discharge-current limit (our jud
 _END_RESISTOR_MIN = 1e3  # Ω; keep RA >= 1 kΩ (common practice)
 _BIAS_WARN = 0.01  # 1 % shift of the charge headroom (common practice rule of thumb)
 _BIAS_FAIL = 0.10  # 10 % (our judgement: the timing is then set by the leakage, not the resistors)
-_DUTY_TARGET_WINDOW = 0.02  # ± duty points around requirements.duty when no window is given (our default)
 _FMAX_WARN_FRACTION = 0.5  # warn above half the family's practical maximum (our judgement)
 
 
@@ -51,16 +50,20 @@ def supply_oscillation(design: Any, ev: Any) -> Any:
 def tolerance_analysis(design: Any, ev: Any) -> Any:
     """The tolerance analysis ran and every sample oscillates.
 
-    Applies when the tolerance analysis was asked for and the supply corners oscillate. Fail when
+    Applies when the supply corners oscillate; listed as not run until the tolerance analysis runs
+    (quick mode). Fail when
     Monte Carlo samples or worst-case points do not oscillate (the design sits near the limits of
     REFERENCES §1.8); warn when part of the analysis could not run for another reason (e.g. an
     ambient outside the capacitor dielectric's rated range); ok otherwise. Origin:
     datasheet-generic (thresholds 1/3 and 2/3 of the supply).
     """
-    if ev.conditions.quick or ev.corners.error:
+    if ev.corners.error:
         return None
-    note = ev.conditions.spread_note
     title = "Tolerance analysis: oscillates over the spread"
+    if ev.conditions.quick:
+        return finding("tolerance.analysis", "not-run", title, None, None, "",
+                       f"Not run: {_NOT_RUN_WHY}.", "", "datasheet-generic")
+    note = ev.conditions.spread_note
     failed = ev.conditions.spread_stops
     if note is None:
         return finding("tolerance.analysis", "ok", title, 0.0, 0.0, "", "Every Monte Carlo sample and every "
@@ -201,66 +204,123 @@ def _travel_range(ev: Any, name: str) -> tuple[float, float]:
     return v, v
 
 
+_NOT_RUN_WHY = ("the tolerance analysis (worst-case corners and Monte Carlo) has not run yet — press “Run Monte "
+                "Carlo” in the dashboard, or evaluate with spread=True")
+
+
+def _spread_verdict(design: Any, ev: Any, rule_id: str, title: str, nominal_text: str, unit: str,
+                    inside: bool | None, band_text: str, bad_corner: str, share: float | None,
+                    remedy: str) -> Any:
+    """ok/warn/fail of a requirement judged by its criterion (the nominal point already passed)."""
+    req = design.requirements
+    crit = req.criterion_text()
+    y = "" if share is None else f" Monte Carlo yield {pct(share, 4)} (n = {ev.requirement_spread.n})."
+    if req.criterion == "worst-case":
+        if inside:
+            return finding(rule_id, "ok", title, 0.0, 0.0, unit, f"{nominal_text}; every worst-case corner stays "
+                           f"inside: {band_text}.{y}", "", "common-practice")
+        return finding(rule_id, "fail", title, None if share is None else 100 * share, None, "%",
+                       f"{nominal_text}, but the worst-case corners leave the requirement: {band_text}; "
+                       f"{bad_corner}.{y} Criterion: {crit}.", remedy, "common-practice")
+    need = req.min_yield
+    if share is not None and share >= need:
+        extra = "" if inside else f" Some corners leave it ({band_text}; {bad_corner})."
+        return finding(rule_id, "ok", title, 100 * share, 100 * need, "%",
+                       f"{nominal_text}; yield {pct(share, 4)} meets the criterion {crit}.{extra}", "",
+                       "common-practice")
+    return finding(rule_id, "fail", title, None if share is None else 100 * share, 100 * need, "%",
+                   f"{nominal_text}, but only {pct(share or 0.0, 4)} of the Monte Carlo builds meet it "
+                   f"(criterion {crit}); {band_text}; {bad_corner}.", remedy, "common-practice")
+
+
+def _not_run(design: Any, ev: Any, rule_id: str, title: str, nominal_text: str) -> Any:
+    if ev.conditions.quick:
+        return finding(rule_id, "not-run", title, None, None, "", f"{nominal_text}. Judged by the criterion "
+                       f"{design.requirements.criterion_text()}: not run — {_NOT_RUN_WHY}.", "", "common-practice")
+    return finding(rule_id, "warn", title, None, None, "", f"{nominal_text}, but the spread could not be judged "
+                   f"against the requirement: {ev.conditions.spread_note or 'no spread figures'}.",
+                   "See the tolerance-analysis finding.", "common-practice")
+
+
 @_rule("duty.range")
 def duty_range(design: Any, ev: Any) -> Any:
-    """The required duty range is reachable.
+    """The required duty range is reachable — by the stated acceptance criterion.
 
-    Pot topology: the duty over the whole wiper travel must cover ``duty_min … duty_max`` (fail
-    otherwise). Fixed-duty topologies: the nominal duty must lie in ``duty_min … duty_max`` or, with
-    only a target ``duty``, within ±2 duty points of it (our default window) — fail otherwise; warn
-    when the tolerance spread (1st–99th percentile) leaves the window. Origin: the design's own
-    requirement; spread band common practice.
+    Pot topology: the duty over the whole wiper travel must cover ``duty_min … duty_max``.
+    Fixed-duty topologies: the duty must lie in ``duty_min … duty_max`` or, with only a target
+    ``duty``, within ±2 duty points of it (our default window). Fail when the nominal design misses
+    it. Then the tolerance spread is judged by ``requirements.criterion``: ``worst-case`` fails
+    when any worst-case corner misses (the finding names the corner); ``yield`` fails when the
+    Monte Carlo share that meets it is below ``min_yield``. Without the tolerance analysis (quick
+    mode) the rule is listed as not run. Origin: the design's own requirement; worst-case and
+    yield criteria common practice.
     """
-    req = design.requirements
-    if req.duty_min is None and req.duty_max is None and req.duty is None:
+    from ..requirement_spread import duty_requirement
+
+    spec = duty_requirement(design)
+    if spec is None:
         return None
+    kind, want_lo, want_hi = spec
     title = "Duty range reachable"
-    if design.timing.topology == "pot":
+    window = f"{pct(want_lo)} … {pct(want_hi)}"
+    rs = ev.requirement_spread
+    if kind == "reach":
         lo, hi = _travel_range(ev, "duty")
-        want_lo = req.duty_min if req.duty_min is not None else (req.duty if req.duty is not None else lo)
-        want_hi = req.duty_max if req.duty_max is not None else (req.duty if req.duty is not None else hi)
         short = max(lo - want_lo, want_hi - hi, 0.0)
-        sev = "fail" if short > 1e-9 else "ok"
-        return finding("duty.range", sev, title, 100 * short, 0.0, "points",
-                       f"The pot travel reaches {pct(lo)} … {pct(hi)} duty; required {pct(want_lo)} … {pct(want_hi)}.",
-                       "Lower the end resistors relative to the pot, or use a larger pot.", "common-practice")
-    if req.duty_min is not None or req.duty_max is not None:
-        want_lo = 0.0 if req.duty_min is None else req.duty_min
-        want_hi = 1.0 if req.duty_max is None else req.duty_max
-    else:
-        want_lo, want_hi = max(req.duty - _DUTY_TARGET_WINDOW, 0.0), min(req.duty + _DUTY_TARGET_WINDOW, 1.0)
+        if short > 1e-9:
+            return finding("duty.range", "fail", title, 100 * short, 0.0, "points",
+                           f"The pot travel reaches {pct(lo)} … {pct(hi)} duty; required {window}.",
+                           "Lower the end resistors relative to the pot, or use a larger pot.", "common-practice")
+        nominal = f"The pot travel reaches {pct(lo)} … {pct(hi)} duty at the nominal values (required {window})"
+        if rs is None:
+            return _not_run(design, ev, "duty.range", title, nominal)
+        band = f"over the corners the travel reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
+        bad = []
+        if rs.duty_low > want_lo + 1e-12:
+            bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
+        if rs.duty_high < want_hi - 1e-12:
+            bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
+        return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
+                               " and ".join(bad) or "every corner reaches it", rs.duty_yield,
+                               "Lower the end resistors relative to the pot (more travel margin beyond the "
+                               "required range), or use tighter parts.")
     d = float(ev.timing.duty)
     off = max(want_lo - d, d - want_hi, 0.0)
-    window = f"{pct(want_lo)} … {pct(want_hi)}"
     if off > 0:
         return finding("duty.range", "fail", title, 100 * off, 0.0, "points",
                        f"The duty is {pct(d)}, outside the required {window}.",
                        "Change the ratio of the charge and discharge resistors (use synthesis to pick values).",
                        "common-practice")
-    band = spread_band(ev.spread, "duty")
-    if band is not None and (band[0] < want_lo or band[1] > want_hi):
-        off = max(want_lo - band[0], band[1] - want_hi)
-        return finding("duty.range", "warn", title, 100 * off, 0.0, "points",
-                       f"Nominal duty {pct(d)} is inside {window}, but the tolerance spread (1st–99th percentile "
-                       f"{pct(band[0])} … {pct(band[1])}) leaves it.",
-                       "Use tighter-tolerance resistors or a steered topology with matched paths.", "common-practice")
-    return finding("duty.range", "ok", title, 0.0, 0.0, "points", f"The duty {pct(d)} lies inside {window}.", "",
-                   "common-practice")
+    nominal = f"The nominal duty {pct(d)} lies inside {window}"
+    if rs is None:
+        return _not_run(design, ev, "duty.range", title, nominal)
+    band = f"over the corners it moves {pct(rs.duty_low)} … {pct(rs.duty_high)}"
+    bad = []
+    if rs.duty_low < want_lo:
+        bad.append(f"lowest {pct(rs.duty_low)} at {rs.duty_low_at}")
+    if rs.duty_high > want_hi:
+        bad.append(f"highest {pct(rs.duty_high)} at {rs.duty_high_at}")
+    return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
+                           " and ".join(bad) or "every corner stays inside", rs.duty_yield,
+                           "Use tighter-tolerance resistors or a steered topology with matched paths.")
 
 
 @_rule("frequency.target")
 def frequency_target(design: Any, ev: Any) -> Any:
-    """PWM frequency inside the required window ``frequency·(1 ± frequency_tolerance)``.
+    """PWM frequency inside the required window ``frequency·(1 ± frequency_tolerance)`` — by the criterion.
 
-    Fail when the nominal frequency is outside; warn when the pot travel or the tolerance spread
-    (1st–99th percentile) leaves the window; ok otherwise. Origin: the design's own requirement;
-    percentile band common practice.
+    Fail when the nominal frequency (or, for the pot topology, the frequency anywhere on the
+    nominal travel) is outside. Then the tolerance spread is judged by
+    ``requirements.criterion``: ``worst-case`` fails when any worst-case corner (at either end
+    of the pot travel or at the set wiper) leaves the window — the finding names the corner;
+    ``yield`` fails when the Monte Carlo share inside is below ``min_yield``. Without the
+    tolerance analysis (quick mode) the rule is listed as not run. Origin: the design's own
+    requirement; worst-case and yield criteria common practice.
     """
     req = design.requirements
     if req.frequency is None:
         return None
-    lo_req = req.frequency * (1.0 - req.frequency_tolerance)
-    hi_req = req.frequency * (1.0 + req.frequency_tolerance)
+    lo_req, hi_req = req.frequency_window
     f0 = float(ev.timing.frequency)
     title = "Frequency on target"
     window = f"{fmt(lo_req, 'Hz', 4)} … {fmt(hi_req, 'Hz', 4)}"
@@ -270,21 +330,26 @@ def frequency_target(design: Any, ev: Any) -> Any:
                        f"The frequency is {fmt(f0, 'Hz', 4)} ({100 * rel:+.3g} %), outside the required {window}.",
                        "Scale the capacitor (or all timing resistors) by the frequency ratio.", "common-practice")
     t_lo, t_hi = _travel_range(ev, "frequency")
-    band = spread_band(ev.spread, "frequency")
-    notes = []
     if t_lo < lo_req or t_hi > hi_req:
-        notes.append(f"over the pot travel it moves {fmt(t_lo, 'Hz', 4)} … {fmt(t_hi, 'Hz', 4)}")
-    if band is not None and (band[0] < lo_req or band[1] > hi_req):
-        notes.append(f"the tolerance spread reaches {fmt(band[0], 'Hz', 4)} … {fmt(band[1], 'Hz', 4)} "
-                     "(1st–99th percentile)")
-    if notes:
-        return finding("frequency.target", "warn", title, f0, req.frequency, "Hz",
-                       f"Nominal {fmt(f0, 'Hz', 4)} is inside {window}, but " + " and ".join(notes) + ".",
-                       "Use tighter-tolerance parts (C0G capacitor, 1 % resistors, a tighter pot) or widen the "
-                       "window.", "common-practice")
-    return finding("frequency.target", "ok", title, f0, req.frequency, "Hz",
-                   f"The frequency {fmt(f0, 'Hz', 4)} ({100 * rel:+.3g} %) stays inside {window}.", "",
-                   "common-practice")
+        return finding("frequency.target", "fail", title, t_lo if t_lo < lo_req else t_hi, req.frequency, "Hz",
+                       f"Nominal {fmt(f0, 'Hz', 4)} is inside {window}, but over the pot travel the frequency moves "
+                       f"{fmt(t_lo, 'Hz', 4)} … {fmt(t_hi, 'Hz', 4)} at the nominal values.",
+                       "Balance the charge and discharge paths (matched steering diodes, equal end resistors) or "
+                       "widen the window.", "common-practice")
+    nominal = f"Nominal {fmt(f0, 'Hz', 4)} ({100 * rel:+.3g} %) is inside the required {window}"
+    rs = ev.requirement_spread
+    if rs is None:
+        return _not_run(design, ev, "frequency.target", title, nominal)
+    band = f"the corners span {fmt(rs.frequency_low, 'Hz', 4)} … {fmt(rs.frequency_high, 'Hz', 4)}"
+    bad = []
+    if rs.frequency_low < lo_req:
+        bad.append(f"lowest {fmt(rs.frequency_low, 'Hz', 4)} at {rs.frequency_low_at}")
+    if rs.frequency_high > hi_req:
+        bad.append(f"highest {fmt(rs.frequency_high, 'Hz', 4)} at {rs.frequency_high_at}")
+    return _spread_verdict(design, ev, "frequency.target", title, nominal, "Hz", rs.frequency_inside(), band,
+                           " and ".join(bad) or "every corner stays inside", rs.frequency_yield,
+                           "Use tighter-tolerance parts (C0G capacitor, 1 % resistors, a tighter pot), a narrower "
+                           "supply or ambient range, or widen the window.")
 
 
 @_rule("frequency.family_max")

@@ -21,6 +21,7 @@ _EXPORTS = {
     "WaveformPlot": "waveforms",
     "waveform_data": "waveforms",
     "PotTravelPlot": "travel",
+    "ConditionsPlot": "conditions",
     "SpreadPlot": "spread",
     "histogram_data": "spread",
     "FlickerMapPlot": "flicker",

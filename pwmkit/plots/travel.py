@@ -24,6 +24,8 @@ class PotTravelPlot:
     source : ColumnDataSource "pwmkit-pot-travel" (wiper [%], duty [%], duty_ideal, frequency, frequency_ideal
         in the unit of the frequency axis)
     marker : ColumnDataSource "pwmkit-pot-marker" (wiper [%], duty [%], frequency)
+    windows : dict "duty", "frequency" of BoxAnnotation — the requirement (:meth:`show_requirements`), in the
+        units of the axes (duty in %, frequency in the axis' prefixed unit), named in the legend when shown
     """
 
     def __init__(self, *, width: int = 390, height: int = 260) -> None:
@@ -51,7 +53,47 @@ class PotTravelPlot:
             style_legend(fig)
         self.duty_figure, self.frequency_figure = duty, freq
         self._f_unit = ""
+        self._f_factor = 1.0
+        self._requirements: tuple[Any, Any] = (None, None)
+        from bokeh.models import BoxAnnotation
+
+        self.windows = {}
+        self._legends = {}
+        self._window_items = {}
+        for fig, key in ((duty, "duty"), (freq, "frequency")):  # the requirement, hidden until set
+            box = BoxAnnotation(fill_color=TRACE["window"], fill_alpha=0.08, line_color=TRACE["window"],
+                                line_width=1.5, visible=False)
+            fig.add_layout(box)
+            self.windows[key] = box
+            # an annotation has no legend entry of its own: an empty strip glyph in its style stands for it
+            proxy = fig.hstrip(y0=[], y1=[], fill_color=TRACE["window"], fill_alpha=0.08, line_color=TRACE["window"],
+                               line_width=1.5)
+            self._legends[key] = fig.legend[0]
+            self._window_items[key] = ("requirement window", [proxy])
         self.layout = row(duty, freq)
+
+    def show_requirements(self, frequency_window: Any = None, duty_range: Any = None) -> None:
+        """Draw the required frequency window and the duty range to reach (green boxes); None hides one.
+
+        The boxes are in the axes' units (duty in %, frequency in the prefixed unit of its axis) and
+        are named in the legend while shown.
+        """
+        from bokeh.models import LegendItem
+
+        self._requirements = (frequency_window, duty_range)
+        for key, window, scale in (("frequency", frequency_window, 1.0 / self._f_factor), ("duty", duty_range, 100.0)):
+            box = self.windows[key]
+            legend = self._legends[key]
+            label, renderers = self._window_items[key]
+            items = [item for item in legend.items if item.renderers != renderers]
+            if window is None:
+                box.visible = False
+            else:
+                box.bottom, box.top = float(window[0]) * scale, float(window[1]) * scale
+                box.visible = True
+                items.append(LegendItem(label=label, renderers=renderers))
+            if len(items) != len(legend.items):
+                legend.items = items
 
     def update(self, travel: Any, timing: Any, wiper: float) -> None:
         """Show a :class:`pwmkit.evaluate.PotTravel` and mark the design's wiper and timing."""
@@ -60,8 +102,10 @@ class PotTravelPlot:
         f_all = np.concatenate([np.asarray(travel.frequency, dtype=float), np.asarray(travel.frequency_ideal, dtype=float)])
         f_factor, f_unit = engineering_scale(float(np.nanmax(np.abs(f_all))) if f_all.size else 1.0, "Hz")
         if f_unit != self._f_unit:
-            self._f_unit = f_unit
+            self._f_unit, self._f_factor = f_unit, f_factor
             self.frequency_figure.yaxis.axis_label = f"frequency [{f_unit}]"
+            if self._requirements != (None, None):
+                self.show_requirements(*self._requirements)
         data = {
             "wiper": 100.0 * np.asarray(travel.wiper, dtype=float),
             "duty": 100.0 * np.asarray(travel.duty, dtype=float),

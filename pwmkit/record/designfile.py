@@ -7,7 +7,7 @@ the design objects::
     version = 1
 
     [design]          # name, vcc, vcc_min, vcc_max, v_load, t_ambient_c …, notes
-    [requirements]    # frequency, frequency_tolerance, duty, duty_min, duty_max, flicker
+    [requirements]    # frequency, frequency_tolerance, duty, duty_min, duty_max, flicker, criterion, min_yield
     [timing]          # topology, ra, rb, c, pot, wiper, … timer, series and tolerances
     [load]            # kind = "led" or "motor", then that load's fields (section absent = no load)
     [switch]          # mosfet, r_gate
@@ -81,7 +81,7 @@ UNITS: Mapping[str, str] = {
     "design.vcc": "V", "design.v_load": "V", "design.vcc_min": "V", "design.vcc_max": "V",
     "design.t_ambient_c": "°C", "design.t_ambient_min_c": "°C", "design.t_ambient_max_c": "°C",
     "requirements.frequency": "Hz", "requirements.frequency_tolerance": "%", "requirements.duty": "%",
-    "requirements.duty_min": "%", "requirements.duty_max": "%",
+    "requirements.duty_min": "%", "requirements.duty_max": "%", "requirements.min_yield": "%",
     "timing.ra": "Ω", "timing.rb": "Ω", "timing.c": "F", "timing.pot": "Ω", "timing.wiper": "%",
     "timing.vd": "V", "timing.vsat": "V", "timing.r_on": "Ω", "timing.vctl": "V", "timing.r_cv": "Ω",
     "timing.cv_bypass": "F", "timing.r_tolerance": "%", "timing.c_tolerance": "%", "timing.pot_tolerance": "%",

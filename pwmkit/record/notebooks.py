@@ -24,7 +24,7 @@ from typing import Any
 from ..errors import DesignError
 from .files import atomic_write, read_limited
 
-__all__ = ["notebook_source_dir", "copy_notebooks", "CopyAction", "read_notebook", "execute_notebook",
+__all__ = ["notebook_source_dir", "copy_notebooks", "example_source_dir", "copy_examples", "find_design_file", "CopyAction", "read_notebook", "execute_notebook",
            "notebook_html", "display_available", "lab_command", "MAIN_NOTEBOOK"]
 
 #: The notebook ``pwmkit lab`` opens (and runs with ``--headless``).
@@ -101,6 +101,71 @@ def copy_notebooks(dest: str | os.PathLike[str], *, force: bool = False,
     if not actions:
         raise DesignError(f"{src}: holds no notebooks")
     return actions
+
+
+def example_source_dir() -> Path | None:
+    """The folder holding pwmkit's example design files (package data first, then the source checkout)."""
+    package = Path(__file__).resolve().parent.parent
+    for candidate in (package / "examples", package.parent / "examples"):
+        if candidate.is_dir() and any(candidate.glob("*.toml")):
+            return candidate
+    return None
+
+
+def copy_examples(dest: str | os.PathLike[str], *, force: bool = False,
+                  source: str | os.PathLike[str] | None = None) -> list[CopyAction]:
+    """Copy the example design files (``*.toml``) beside the notebooks, keeping edited copies.
+
+    The design notebook reads them from its own folder, so edits saved from the dashboard are
+    what the record evaluates. Same rules as :func:`copy_notebooks`; no examples → no actions.
+    """
+    src = Path(source) if source is not None else example_source_dir()
+    out = Path(dest)
+    actions: list[CopyAction] = []
+    if src is None:
+        return actions
+    out.mkdir(parents=True, exist_ok=True)
+    for f in sorted(src.glob("*.toml")):
+        target = out / f.name
+        if target.is_symlink() or (target.exists() and not target.is_file()):
+            raise DesignError(f"{target}: is not a regular file; move it away first")
+        if not target.exists():
+            atomic_write(target, f.read_bytes())
+            actions.append(CopyAction(f.name, target, "copied"))
+        elif filecmp.cmp(f, target, shallow=False):
+            actions.append(CopyAction(f.name, target, "unchanged"))
+        elif force:
+            atomic_write(target, f.read_bytes(), force=True)
+            actions.append(CopyAction(f.name, target, "replaced"))
+        else:
+            actions.append(CopyAction(f.name, target, "kept"))
+    return actions
+
+
+def find_design_file(name: str, folder: str | os.PathLike[str] | None = None) -> Path:
+    """The design file ``name`` beside the notebook (``folder``, default the working folder).
+
+    When it is not there but pwmkit ships an example of that name, the example is first copied
+    beside the notebook (as ``pwmkit lab`` does), so that edits saved from the dashboard go to
+    the user's copy and never into pwmkit's own files.
+
+    Raises
+    ------
+    DesignError
+        Neither exists, or ``name`` is not a plain file name.
+    """
+    if Path(name).name != name or not name.endswith(".toml"):
+        raise DesignError(f"{name!r}: give the plain file name of a .toml design file")
+    here = Path.cwd() if folder is None else Path(folder)
+    path = here / name
+    if path.is_file():
+        return path
+    examples = example_source_dir()
+    if examples is not None and (examples / name).is_file():
+        atomic_write(path, (examples / name).read_bytes())
+        return path
+    raise DesignError(f"{name}: no such design file in {here} or in pwmkit's examples; run `pwmkit lab`, which "
+                      "copies the examples beside the notebooks")
 
 
 def read_notebook(path: str | os.PathLike[str]) -> Any:

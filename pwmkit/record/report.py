@@ -106,6 +106,9 @@ def _requirements(design: Design) -> str:
         rows.append(("load supply", _fv(design.v_load, "V")))
     rows.append(("ambient", f"{design.t_ambient_c:g} °C (range {design.t_ambient_min_c:g} … "
                             f"{design.t_ambient_max_c:g} °C)"))
+    rows.append(("load", "none" if design.load is None else design.load.kind))
+    rows.append(("acceptance criterion", r.criterion_text() + (" — every corner of the tolerance box inside the "
+                 "requirement" if r.criterion == "worst-case" else " of the Monte Carlo builds inside the requirement")))
     return _table(("requirement", "value"), rows)
 
 

@@ -18,7 +18,13 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`FlickerPanel` — the design point on the IEEE 1789 regions;
 - :class:`FindingsPanel` — design-rule checks with remedies;
 - :class:`FormulasPanel` — rendered formulas and copyable text;
-- :class:`SchematicPanel` — the circuit as SVG.
+- :class:`SchematicPanel` — the circuit as SVG;
+- :class:`RequirementsPanel`, :class:`PartsPanel` — requirements and criterion; dielectric, tolerances, series;
+- :class:`CandidatesPanel` — ranked part sets for the requirements (non-blocking search), "use this set";
+- :class:`ConditionsPanel` — frequency and duty against supply and ambient;
+- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes".
+
+``dashboard("my-driver.toml")`` opens a design file; Save writes the edits back to it.
 
 Plot panels need BokehJS on the notebook page: :func:`dashboard` loads it from the installed
 bokeh (no network); when you use plot panels without a dashboard, call :func:`load_bokehjs` once.
@@ -49,6 +55,11 @@ _EXPORTS = {
     "FormulasPanel": "formulas",
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
+    "RequirementsPanel": "requirements",
+    "PartsPanel": "requirements",
+    "CandidatesPanel": "candidates",
+    "ConditionsPanel": "conditions",
+    "FileBar": "designfile_bar",
 }
 
 __all__ = sorted(_EXPORTS)

@@ -1,8 +1,11 @@
 """The design dashboard: every panel on one shared design session, built by :func:`dashboard`.
 
-Layout: a header line (design, verdict of the checks), the cautions, the timing panel beside the
-waveforms, then tabs — pot travel, spread, load and output stage, flicker map, checks, formulas,
-schematic.
+Layout: the design-file bar (Open, Save, Save as, Revert, unsaved mark), a header line (design,
+verdict of the checks — the same checks the record shows, spread checks "not run" until the Monte
+Carlo runs), the cautions, the timing panel with the requirement band beside the waveforms, then
+tabs — pot travel, spread, load and output stage, flicker map, checks, formulas, schematic, and for
+your own design requirements, parts, candidates (the part search) and supply & ambient
+(:mod:`pwmkit.widgets.workbench`).
 
 Live-update policy
 ------------------
@@ -20,6 +23,7 @@ Live-update policy
 
 from __future__ import annotations
 
+import os
 from typing import Any
 
 import ipywidgets as w
@@ -29,7 +33,7 @@ from ._base import esc, log
 from .checks import CautionsBox, FindingsPanel
 from .formulas import FormulasPanel
 from .loads import LoadsPanel
-from .session import DesignSession, as_session
+from .session import DesignSession
 from .spread import SpreadPanel
 from .tabs import PageTabs
 from .timing import TimingPanel
@@ -63,14 +67,16 @@ def load_bokehjs() -> bool:
     return True
 
 
-def _header_html(design: Design, evaluation: Any) -> str:
+def _header_html(design: Design, evaluation: Any, findings: Any = None) -> str:
     from .. import glossary as g
     from ..checks.findings import severity_style
     from ..numstyle import screen
 
-    f = evaluation.findings
+    f = evaluation.findings if findings is None else findings
     parts = []
-    for sev, n in (("fail", f.fail_count), ("warn", f.warn_count), ("ok", f.ok_count)):
+    for sev, n in (("fail", f.fail_count), ("warn", f.warn_count), ("ok", f.ok_count), ("not-run", f.not_run_count)):
+        if sev == "not-run" and not n:
+            continue
         colour, symbol, _word = severity_style(sev)
         parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px;white-space:nowrap'>"
                      f"{symbol} {esc(g.severity_count(sev, n))}</span>")
@@ -109,8 +115,10 @@ class Dashboard(w.VBox):
     tabs : ipywidgets.Tab
     """
 
-    def __init__(self, design: Design | DesignSession, *, debounce: float = 0.3) -> None:
-        self.session = as_session(design)
+    def __init__(self, design: Design | DesignSession | str | os.PathLike[str], *, debounce: float = 0.3) -> None:
+        from .workbench import attach_pages, open_source
+
+        self.session, file_state = open_source(design)
         s = self.session
         self.header = w.HTML()
         self.cautions = CautionsBox(s, collapsed=False)  # once per view, open on first display
@@ -129,12 +137,15 @@ class Dashboard(w.VBox):
         ]
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
+        self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
+        pages = pages + own
+        self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
         self.timing.layout.width = "440px"
         self.timing.layout.min_width = "440px"
         # the main readout sits with the waveforms; controls beside them when the width allows,
         # else the readout and the waveforms come first (wrap-reverse) so both stay in view
-        views = w.VBox([self.timing.readout, self.waveforms])
+        views = w.VBox([self.timing.readout, self.requirement_band, self.waveforms])
         views.add_class("pwmkit-views")
         top = w.HBox([self.timing, views],
                      layout=w.Layout(flex_flow="row wrap-reverse", justify_content="flex-start",
@@ -143,12 +154,14 @@ class Dashboard(w.VBox):
         from .downloads import DownloadsBar
 
         self.downloads = DownloadsBar(s)
-        super().__init__([w.HTML(DASHBOARD_CSS), self.header, self.cautions, top, self.tabs, self.downloads])
+        super().__init__([w.HTML(DASHBOARD_CSS), self.file, self.header, self.cautions, top, self.tabs,
+                          self.downloads])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")
         self._on_tab({"new": self.tabs.selected_index})
         s.subscribe(self._refresh_header)
+        s.subscribe_spread(lambda _ev: self._refresh_header(s.evaluation))
         self._refresh_header(s.evaluation)
 
     @staticmethod
@@ -172,7 +185,7 @@ class Dashboard(w.VBox):
 
     def _refresh_header(self, evaluation: Any) -> None:
         try:
-            self.header.value = _header_html(self.session.design, evaluation)
+            self.header.value = _header_html(self.session.design, evaluation, self.session.findings)
         except Exception:  # display helper; never raise into a callback
             log.exception("pwmkit: dashboard header failed")
 
@@ -249,7 +262,7 @@ class Dashboard(w.VBox):
         self.tabs.selected_index = list(self.tabs.titles).index(title)
 
 
-def dashboard(design: Design | DesignSession, *, debounce: float = 0.3) -> Dashboard:
+def dashboard(design: Design | DesignSession | str | os.PathLike[str], *, debounce: float = 0.3) -> Dashboard:
     """Build the interactive design dashboard for ``design``.
 
     Loads BokehJS into the notebook page from the installed bokeh (no network) and returns a
@@ -257,8 +270,9 @@ def dashboard(design: Design | DesignSession, *, debounce: float = 0.3) -> Dashb
 
     Parameters
     ----------
-    design : Design or DesignSession
-        The starting design (it must evaluate), or a session to share with other panels.
+    design : path, Design or DesignSession
+        A design file (``"fan.toml"``: Save writes back to it), the starting design (it must
+        evaluate), or a session to share with other panels.
     debounce : float
         Quiet time before slower work (schematic, formulas) is redone after edits [s].
 

@@ -40,7 +40,7 @@ def findings_html(findings: Any, *, show_ok: bool = True) -> str:
     from ..checks.findings import severity_style
 
     items = sorted(findings, key=lambda f: _ORDER.get(f.severity, 3))
-    counts = {s: sum(1 for f in items if f.severity == s) for s in ("fail", "warn", "ok")}
+    counts = {s: sum(1 for f in items if f.severity == s) for s in ("fail", "warn", "ok", "not-run")}
     summary = " · ".join(
         f"<span class='pwmkit-count-{s}'>{severity_style(s)[1]} {esc(g.severity_count(s, n))}</span>"
         for s, n in counts.items()
@@ -48,7 +48,7 @@ def findings_html(findings: Any, *, show_ok: bool = True) -> str:
     cards = []
     for f in items:
         if f.severity == "ok" and not show_ok:
-            continue
+            continue  # "not run" entries are always listed
         colour, symbol, word = severity_style(f.severity)
         value = _number(f.value, f.unit)
         bound = _number(f.limit, f.unit)
@@ -137,9 +137,11 @@ class FindingsPanel(Panel):
         self.set_body([self.show_ok, self.html])
         self.show_ok.observe(lambda _change: self.refresh(self.session.evaluation), names="value")
         self.session.subscribe(self.follow)
+        self.session.subscribe_spread(self.follow)
         self.refresh(self.session.evaluation)
 
     @safe_callback
     def refresh(self, evaluation: Any) -> None:
-        self.html.value = findings_html(evaluation.findings, show_ok=self.show_ok.value)
+        # the checks the record shows: with the spread run when it is current, else "not run" entries
+        self.html.value = findings_html(self.session.findings, show_ok=self.show_ok.value)
         self.clear_message()

@@ -114,6 +114,12 @@ class DesignSession:
         return self.propose(candidate)
 
     @property
+    def findings(self) -> Any:
+        """The checks as the record shows them: those of the spread run when it belongs to the current
+        design, else the quick evaluation's (spread checks listed as not run)."""
+        return (self.spread_evaluation if self.spread_is_current else self.evaluation).findings
+
+    @property
     def spread_is_current(self) -> bool:
         """True when the spread figures belong to the current design."""
         return self.spread_evaluation is not None and self.spread_design == self.design

@@ -138,9 +138,8 @@ class TimingPanel(Panel):
         self.timer = w.Dropdown(options=tuple((label, key) for key, label in TIMER_LABELS.items()), value=t.timer,
                                 description="timer", layout=w.Layout(width="150px"),
                                 style={"description_width": "40px"})
-        from ..parts.diodes import DIODES
-
         from ..glossary import diode_label
+        from ..parts.diodes import DIODES
 
         families = tuple(DIODES)
         if t.diode not in families:

@@ -107,6 +107,11 @@ class PotTravelPanel(Panel):
             return
         wiper = self.session.design.timing.wiper
         self.plot.update(travel, evaluation.timing, wiper)
+        from ..requirement_spread import duty_requirement
+
+        spec = duty_requirement(self.session.design)
+        self.plot.show_requirements(self.session.design.requirements.frequency_window,
+                                    None if spec is None else spec[1:])
         (d0, d1), (f0, f1) = travel.duty_range, travel.frequency_range
         from ..numstyle import screen_range
 

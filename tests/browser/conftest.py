@@ -78,6 +78,8 @@ def lab(tmp_path_factory):
     for folder in (config, runtime, workspaces):
         folder.mkdir()
     shutil.copytree(REPO / "notebooks", root)
+    for example in (REPO / "examples").glob("*.toml"):  # the design files the notebooks read (as `pwmkit lab`)
+        shutil.copy(example, root / example.name)
     token = secrets.token_hex(16)
     port = _free_port()
     env = dict(os.environ, JUPYTER_CONFIG_DIR=str(config), JUPYTER_RUNTIME_DIR=str(runtime),

@@ -105,8 +105,9 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
         f"(old) => {{ const v = ({READ_SOURCE})(['pwmkit-waveform', 'v_cap']);"
         " return v !== null && JSON.stringify(v) !== JSON.stringify(old); }",
         arg=v_cap_0, timeout=20_000)
-    marker = page.evaluate(f"({READ_SOURCE})(['pwmkit-pot-marker', 'wiper'])")
-    assert marker is not None and marker[0] > 50.0  # percent of the travel
+    # the pot-travel marker's update arrives in its own message, after the waveform's
+    page.wait_for_function(f"() => {{ const m = ({READ_SOURCE})(['pwmkit-pot-marker', 'wiper']);"
+                           " return m !== null && m[0] > 50.0; }", timeout=20_000)  # percent of the travel
     dash.locator(".pwmkit-plot-waveforms").first.screenshot(path=str(artifacts / "lab_waveforms_after_slider.png"))
 
     # 2 — text entry in engineering notation

@@ -85,7 +85,7 @@ def test_tolerance_analysis_fails_when_samples_stop() -> None:
                     requirements=Requirements())
     assert sev(d, "supply.oscillation") == "ok"
     assert sev(d, "tolerance.analysis", spread=True) == "fail"
-    assert sev(d, "tolerance.analysis") is None  # quick mode: no tolerance analysis
+    assert sev(d, "tolerance.analysis") == "not-run"  # quick mode: listed as not run, never dropped
 
 
 @pytest.mark.parametrize(("lo", "hi", "expected"), [
@@ -150,19 +150,21 @@ def test_duty_range_pot_unreachable() -> None:
 @pytest.mark.parametrize(("req", "expected"), [
     (Requirements(duty_min=0.4, duty_max=0.6), "fail"),   # classic duty (RA+RB)/(RA+2RB) = 2/3 > 0.6
     (Requirements(duty=0.5), "fail"),                      # target 50 % ± 2 points (our default window)
-    (Requirements(duty=0.66), "ok"),
-    (Requirements(duty_min=0.6, duty_max=0.7), "ok"),
+    (Requirements(duty=0.66), "not-run"),                  # nominal inside; the spread is judged on demand
+    (Requirements(duty_min=0.6, duty_max=0.7), "not-run"),
 ])
 def test_duty_range_fixed_topology(req: Requirements, expected: str) -> None:
     # classic astable duty > 50 % always (textbook: D = (RA+RB)/(RA+2RB), REFERENCES §1.3)
     assert sev(classic().replace(requirements=req), "duty.range") == expected
 
 
-def test_duty_range_spread_warning() -> None:
-    # the window is met nominally but the ±5 % resistor spread moves the duty beyond it
+def test_duty_range_corners_outside_fail_worst_case() -> None:
+    # the window is met nominally but the ±5 % resistor spread moves the duty beyond it: with the
+    # worst-case criterion that is a failure, and the finding names the corner
     d = classic(ra=10e3, rb=10e3).replace(requirements=Requirements(duty_min=0.6, duty_max=0.664))
     assert float(ev_of(d).timing.duty) < 0.664
-    assert sev(d, "duty.range", spread=True) == "warn"
+    f = ev_of(d, True).findings.by_id("duty.range")
+    assert f.severity == "fail" and "highest" in f.explanation and "ra +5 %" in f.explanation
 
 
 def test_frequency_target_missed() -> None:
@@ -172,11 +174,12 @@ def test_frequency_target_missed() -> None:
     assert f.value == pytest.approx(float(ev_of(d).timing.frequency))
 
 
-def test_frequency_target_spread_warning_and_quick_mode_ok() -> None:
-    # the fan's 50 kΩ pot (±20 %) moves the frequency by about ±19 % (∂ln f/∂ln pot ≈ −0.96)
+def test_frequency_target_spread_fail_and_quick_mode_not_run() -> None:
+    # the fan's 50 kΩ pot (±20 %) moves the frequency by about ±19 % (∂ln f/∂ln pot ≈ −0.96):
+    # nominal on target, corners far outside a ±10 % window
     d = FAN.replace(requirements=Requirements(frequency=float(FAN.astable().frequency), frequency_tolerance=0.1))
-    assert sev(d, "frequency.target") == "ok"
-    assert sev(d, "frequency.target", spread=True) == "warn"
+    assert sev(d, "frequency.target") == "not-run"
+    assert sev(d, "frequency.target", spread=True) == "fail"
 
 
 @pytest.mark.parametrize(("c", "expected"), [(1e-9, "fail"), (2.2e-9, "warn"), (10e-9, "ok")])
@@ -416,7 +419,7 @@ def test_findings_container_behaves_like_a_tuple() -> None:
     fs = ev_of(FAN).findings
     assert isinstance(fs, Findings) and len(fs) == len(list(fs))
     assert fs[0] == list(fs)[0] and isinstance(fs[1:3], Findings) and len(fs[1:3]) == 2
-    assert fs.fail_count + fs.warn_count + fs.ok_count == len(fs)
+    assert fs.fail_count + fs.warn_count + fs.ok_count + fs.not_run_count == len(fs)
     assert fs.worst in ("ok", "warn", "fail")
     assert fs.by_id("motor.audible") is not None and fs.by_id("led.flicker") is None
     with pytest.raises(KeyError, match="not a rule id"):
@@ -477,7 +480,7 @@ def test_findings_origins_and_finite_values_on_violating_designs() -> None:
     for d in designs:
         for f in ev_of(d).findings:
             assert f.origin.split(":")[0] in ("standard", "datasheet-generic", "common-practice", "from-memory")
-            assert f.explanation and (f.severity == "ok" or f.remedy)
+            assert f.explanation and (f.severity in ("ok", "not-run") or f.remedy)
 
 
 def test_run_checks_matches_evaluation_findings() -> None:

@@ -220,7 +220,7 @@ def test_zener_clamp_raises_clamp_voltage_and_shortens_decay() -> None:
 def test_tolerance_results_equal_the_tolerance_models() -> None:
     d, ev = FAN, FULL["fan"]
     kw, tk = timing_kwargs(d), tolerance_kwargs(d)
-    ref = monte_carlo("pot", n=4000, seed=1, allow_failures=True, frequency_window=(30e3 * 0.7, 30e3 * 1.3),
+    ref = monte_carlo("pot", n=4000, seed=1, allow_failures=True, frequency_window=(31e3 * 0.65, 31e3 * 1.35),
                       **tk, **kw)
     np.testing.assert_array_equal(ev.spread.frequency, ref.frequency)
     assert ev.spread.yield_ == ref.yield_
@@ -391,7 +391,7 @@ def _check(ev: Evaluation) -> None:
         assert isinstance(val, str) or math.isfinite(val), key
     json.dumps(ev.to_dict(), allow_nan=False)
     for f in ev.findings:
-        assert f.severity in ("ok", "warn", "fail")
+        assert f.severity in ("ok", "warn", "fail", "not-run")
     ev._repr_html_()
 
 

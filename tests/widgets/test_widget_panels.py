@@ -30,9 +30,10 @@ def test_dashboard_is_a_widget_with_every_panel(shared_dash):
 
     assert isinstance(dash, Dashboard) and isinstance(dash, ipywidgets.VBox)
     assert dash.tabs.titles == ("Pot travel", "Spread", "Load & switch", "Flicker", "Checks", "Formulas",
-                                "Schematic")
+                                "Schematic", "Requirements", "Parts", "Candidates", "Supply & ambient")
     for panel in (dash.timing, dash.waveforms, dash.pot_travel, dash.spread, dash.loads, dash.flicker,
-                  dash.findings, dash.formulas, dash.schematic):
+                  dash.findings, dash.formulas, dash.schematic, dash.requirements, dash.parts, dash.candidates,
+                  dash.conditions, dash.file):
         assert panel.session is dash.session
         assert panel.message_text == ""
     assert "pwmkit-cautions" in dash.cautions.value and "Verify on the bench" in dash.cautions.value
@@ -65,7 +66,8 @@ def test_plots_carry_their_first_data_when_the_widget_is_made(grow):
 def test_resync_reserialises_every_plot(dash):
     before = dash.waveforms.bokeh.render_bundle
     dash.timing.wiper.value = 65.0
-    assert dash.resync() == 6  # waveforms, pot travel, spread, motor current, MOSFET losses, flicker map
+    # waveforms, pot travel, spread, motor current, MOSFET losses, flicker map, candidates, supply & ambient
+    assert dash.resync() == 8
     assert dash.waveforms.bokeh.render_bundle != before
 
 

@@ -89,7 +89,9 @@ def test_dashboard_words_and_numbers(grow):
     assert "basis:" not in findings and "origin:" not in findings
     dash.findings.show_ok.value = True
     findings = html.unescape(dash.findings.html.value)
-    assert "(target 6 kHz)" in findings and "(limit 6 kHz)" not in findings and "source:" in findings
+    # "limit" only for a part's limit; other bounds say maximum / minimum / target
+    assert "(maximum 1.2 MHz)" in findings and "(limit 1.2 MHz)" not in findings and "source:" in findings
+    assert "(limit 150 °C)" in findings and "(minimum 4.5 V)" in findings
     assert "0.0004988" not in findings and "< 0.001 %" in findings
 
 
