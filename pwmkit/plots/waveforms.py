@@ -8,7 +8,22 @@ import numpy as np
 
 from .style import TRACE, engineering_scale, legend_outside, new_figure, time_scale
 
-__all__ = ["WaveformPlot", "waveform_data"]
+__all__ = ["WaveformPlot", "waveform_data", "output_high_level"]
+
+
+def output_high_level(design: Any, evaluation: Any) -> float:
+    """The timer's output-high level: the gate-drive model's level when it ran, else the family's [V].
+
+    The waveform draws the output at this level so that it agrees with the gate drive shown
+    beside it (a bipolar timer's output sits about 1.35 V below the supply — typical value, check
+    your part's data sheet).
+    """
+    gate = getattr(evaluation, "gate", None)
+    if gate is not None:
+        return float(gate.v_gate_on)
+    from ..parts.timers import get_timer
+
+    return float(get_timer(design.timing.timer).output_high(design.vcc))
 
 
 def waveform_data(timing: Any, *, cycles: float = 3.0, points_per_cycle: int = 240,

@@ -21,11 +21,12 @@ _SYMBOL_KIND = {"R_A": "Ω", "R_B": "Ω", "P": "Ω", "R_on": "Ω", "R_cv": "Ω",
                 "V_d": "V", "V_sat": "V", "V_ctl": "V", "w": "wiper"}
 
 
-def expression_lines(expr: Any, lhs: str) -> str:
+def expression_lines(expr: Any, lhs: str, **latex_settings: Any) -> str:
     """LaTeX ``aligned`` block of ``lhs = expr`` with one factor per line.
 
     The short factors (symbols, numbers) and the denominator form the first line; every longer
-    factor (a sum, a logarithm) follows on its own line after a ``\\cdot``.
+    factor (a sum, a logarithm) follows on its own line after a ``\\cdot``. ``latex_settings`` go to
+    sympy's ``latex`` (e.g. ``symbol_names`` to write the design's numbers in place of the symbols).
     """
     import sympy as sp
 
@@ -36,12 +37,16 @@ def expression_lines(expr: Any, lhs: str) -> str:
     short = [f for f in factors if f.is_Symbol or f.is_Number]
     long_ = [f for f in factors if not (f.is_Symbol or f.is_Number)]
     head = sp.Mul(*short) if short else sp.Integer(1)
-    first = _latex(head / den) if den != 1 or short else ""
+    if latex_settings.get("symbol_names"):  # numbers in place of symbols: keep every factor visible
+        first_expr = sp.Mul(head, sp.Pow(den, -1, evaluate=False), evaluate=False) if den != 1 else head
+    else:
+        first_expr = head / den
+    first = _latex(first_expr, **latex_settings) if den != 1 or short else ""
     if not long_:
         return rf"\begin{{aligned}} {lhs} &= {first} \end{{aligned}}"
     lines = []
     for i, f in enumerate(long_):
-        piece = _latex(f)
+        piece = _latex(f, **latex_settings)
         if isinstance(f, sp.Add):
             piece = rf"\left({piece}\right)"
         if i == 0 and first:

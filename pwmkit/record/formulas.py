@@ -412,6 +412,12 @@ def worked(design: Design, quantity: str = "t_high", fmt: str = "markdown") -> s
                  f"{lhs_tex} = {_unit_latex(result) if quantity != 'duty' else _duty_latex(w['value'])}"]
         if fmt == "latex":
             return "\\begin{align*}\n" + " \\\\\n".join(ln.replace(" = ", " &= ", 1) for ln in lines) + "\n\\end{align*}"
+        if quantity in ("t_high", "t_low"):  # long expressions: one factor per line, so they fit a page
+            from .formula_display import expression_lines
+
+            names = {s: _number_text(w["values"][s], "latex") for s in w["expr"].free_symbols}
+            lines[0] = expression_lines(w["expr"], lhs_tex)
+            lines[1] = expression_lines(w["expr"], lhs_tex, symbol_names=names, mul_symbol="dot")
         return "\n\n".join(f"$$\n{ln}\n$$" for ln in lines)
     import sympy as sp
 

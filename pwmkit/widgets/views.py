@@ -62,19 +62,7 @@ class WaveformPanel(Panel):
         self.clear_message()
 
 
-def output_high_level(design: Design, evaluation: Any) -> float:
-    """The timer's output-high level: the gate-drive model's level when it ran, else the family's [V].
-
-    The waveform draws the output at this level so that it agrees with the gate drive shown
-    beside it (a bipolar timer's output sits about 1.35 V below the supply — typical value, check
-    your part's data sheet).
-    """
-    gate = getattr(evaluation, "gate", None)
-    if gate is not None:
-        return float(gate.v_gate_on)
-    from ..parts.timers import get_timer
-
-    return float(get_timer(design.timing.timer).output_high(design.vcc))
+from ..plots.waveforms import output_high_level  # noqa: E402 - kept importable from here
 
 
 class PotTravelPanel(Panel):
