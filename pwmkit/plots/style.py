@@ -159,14 +159,23 @@ def new_figure(*, title: str = "", width: int = 560, height: int = 220, x_label:
 
 
 def style_legend(fig: Any, location: str | None = None) -> None:
-    """Small legend that can hide lines on click; ``location`` only for a legend inside the frame."""
-    if location is not None:
-        fig.legend.location = location
+    """Small legend that can hide lines on click, placed clear of the traces.
+
+    A legend that bokeh put inside the data area (``legend_label=…``) is moved below it, in one
+    row, so it never covers a trace; ``location`` is kept for callers that name a corner but no
+    longer puts the legend over the data.
+    """
+    from bokeh.models import Legend
+
+    for legend in [r for r in fig.center if isinstance(r, Legend)]:
+        fig.center = [r for r in fig.center if r is not legend]
+        legend.orientation = "horizontal"
+        fig.add_layout(legend, "below")
     fig.legend.click_policy = "hide"
     fig.legend.background_fill_alpha = 0.9
     fig.legend.label_text_font_size = "10px"
-    fig.legend.spacing = 2
-    fig.legend.padding = 4
+    fig.legend.spacing = 6
+    fig.legend.padding = 2
     fig.legend.margin = 2
     fig.legend.border_line_color = None
 
