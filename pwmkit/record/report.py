@@ -147,7 +147,9 @@ def _circuit(design: Design, evaluation: Any) -> str:
         parts.append(f"The timer output drives a low-side N-channel MOSFET ({sw.mosfet}) through "
                      f"{_fv(sw.r_gate, 'Ω')}.")
     if isinstance(load, LedLoad):
-        parts.append(f"The load is {load.n_parallel} string(s) of {load.n_series} {load.colour} LEDs, each string "
+        from ..glossary import plural
+
+        parts.append(f"The load is {plural(load.n_parallel, 'string')} of {load.n_series} {load.colour} LEDs, each string "
                      f"with a {_fv(load.r_series, 'Ω')} series resistor, from {_fv(design.load_supply, 'V')}.")
     elif isinstance(load, MotorLoad):
         clamp = (f" in series with a {_fv(design.freewheel.v_zener, 'V')} Zener clamp"
