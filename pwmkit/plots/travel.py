@@ -65,8 +65,8 @@ class PotTravelPlot:
                                 line_width=1.5, visible=False)
             fig.add_layout(box)
             self.windows[key] = box
-            # an annotation has no legend entry of its own: an empty strip glyph in its style stands for it
-            proxy = fig.hstrip(y0=[], y1=[], fill_color=TRACE["window"], fill_alpha=0.08, line_color=TRACE["window"],
+            # an annotation has no legend entry of its own: an empty box glyph in its style stands for it
+            proxy = fig.quad(left=[np.nan], right=[np.nan], bottom=[np.nan], top=[np.nan], fill_color=TRACE["window"], fill_alpha=0.3, line_color=TRACE["window"],
                                line_width=1.5)
             self._legends[key] = fig.legend[0]
             self._window_items[key] = ("requirement window", [proxy])

@@ -286,6 +286,9 @@ def test_dashboard_text_fits_and_matches_the_reference_screenshots(lab, page, ar
     from playwright.sync_api import expect
 
     (lab.root / "dashboard_layout.ipynb").write_text(json.dumps(NOTEBOOK), encoding="utf-8")
+    bokeh_errors: list[str] = []
+    page.on("console", lambda m: bokeh_errors.append(m.text) if m.type == "error" and "bokeh" in m.text.lower()
+            else None)
     page.set_viewport_size({"width": 1280, "height": 900})
     _open_and_run(page, lab, "dashboard_layout.ipynb", "PWMKIT-LAYOUT-READY")
     dash = page.locator(".pwmkit-dashboard").first
@@ -332,3 +335,4 @@ def test_dashboard_text_fits_and_matches_the_reference_screenshots(lab, page, ar
         slug = re.sub(r"[^a-z]+", "-", title.lower()).strip("-")
         png = tabs.screenshot(path=str(artifacts / f"tab_{slug}_1280.png"), animations="disabled")
         _compare_with_reference(png, f"tab-{slug}-1280")
+    assert bokeh_errors == [], bokeh_errors[:5]  # every plot rendered (no bokeh error in the page)
