@@ -4,9 +4,13 @@
   inline, and the derived formula lambdified for scalars and called per element) and vs a
   hand-written numpy expression of the same physics;
 - scipy's ODE solver per design (time per design, extrapolated);
-- `import pwmkit` time and which heavy modules it pulls in.
+- the pot topology over 1,000,000 elements vs hand-written numpy (frequency and duty read);
+- peak memory of one 10,000,000-element call (tracemalloc) against the input arrays' bytes;
+- cold start: `import pwmkit` and the first `astable` call in a new process, and which heavy
+  modules they pull in.
 
-Targets (issue): >= 20x the plain loop (aim 50x), within 2x of hand-written numpy.
+Targets (issues): >= 20x the plain loop (aim 50x), within 2x of hand-written numpy (steered and
+pot), a 1e7-element call peaks at <= 4x its input arrays' bytes, first call <= 0.5 s.
 Run: python benchmarks/bench_timing.py
 """
 
@@ -31,6 +35,15 @@ def best_of(fn, repeat: int = 5) -> float:
     return min(times)
 
 
+def paired(a, b, repeat: int = 9) -> tuple[float, float]:
+    """Best times of ``a`` and ``b`` run alternately (so a busy machine slows both alike)."""
+    ta, tb = [], []
+    for _ in range(repeat):
+        ta.append(best_of(a, 1))
+        tb.append(best_of(b, 1))
+    return min(ta), min(tb)
+
+
 def main() -> None:
     n = 1_000_000
     rng = np.random.default_rng(1)
@@ -39,9 +52,13 @@ def main() -> None:
     c = rng.uniform(1e-9, 1e-6, n)
     vcc = rng.uniform(9, 15, n)
     vd, vsat = 0.6, 0.1
-    astable("steered", ra=ra[:10], rb=rb[:10], c=c[:10], vcc=vcc[:10], vd=vd, vsat=vsat)  # derive + lambdify once
+    astable("steered", ra=ra[:10], rb=rb[:10], c=c[:10], vcc=vcc[:10], vd=vd, vsat=vsat)  # warm-up
 
-    t_pwm = best_of(lambda: astable("steered", ra=ra, rb=rb, c=c, vcc=vcc, vd=vd, vsat=vsat, r_on=0.0))
+    def pwm_steered() -> None:
+        r = astable("steered", ra=ra, rb=rb, c=c, vcc=vcc, vd=vd, vsat=vsat, r_on=0.0)
+        _ = (r.frequency, r.duty)
+
+    pwm_steered()
 
     def hand_numpy() -> None:
         vctl = 2 * vcc / 3
@@ -50,7 +67,7 @@ def main() -> None:
         p = t_h + t_l
         _ = (1 / p, t_h / p)
 
-    t_np = best_of(hand_numpy)
+    t_pwm, t_np = paired(pwm_steered, hand_numpy)
 
     m = 50_000
     ra_l, rb_l, c_l, vcc_l = ra[:m].tolist(), rb[:m].tolist(), c[:m].tolist(), vcc[:m].tolist()
@@ -104,6 +121,45 @@ def main() -> None:
     except ImportError:  # pragma: no cover
         t_ode = float("nan")
 
+    # pot topology, frequency and duty read (they are computed on first access)
+    pot = rng.uniform(1e4, 1e5, n)
+    wiper = rng.uniform(0.0, 1.0, n)
+
+    def pwm_pot() -> None:
+        r = astable("pot", ra=ra, rb=rb, c=c, vcc=vcc, pot=pot, wiper=wiper, vd=vd, vsat=vsat, r_on=0.0)
+        _ = (r.frequency, r.duty)
+
+    def hand_pot() -> None:
+        vctl = 2 * vcc / 3
+        t_h = (ra + wiper * pot) * c * np.log((vcc - vd - vctl / 2) / (vcc - vd - vctl))
+        t_l = (rb + (1 - wiper) * pot) * c * np.log((vctl - vsat - vd) / (vctl / 2 - vsat - vd))
+        p = t_h + t_l
+        _ = (1 / p, t_h / p)
+
+    pwm_pot()
+    t_pot, t_pot_np = paired(pwm_pot, hand_pot)
+
+    # peak memory of one large call: one 1e7 array input (ra), the rest scalars
+    import tracemalloc
+
+    big = rng.uniform(1e3, 1e5, 10_000_000)
+    tracemalloc.start()
+    base = tracemalloc.get_traced_memory()[0]
+    tracemalloc.reset_peak()
+    big_r = astable("steered", ra=big, rb=10e3, c=100e-9, vcc=12.0)
+    peak_call = tracemalloc.get_traced_memory()[1] - base
+    _ = (big_r.frequency, big_r.duty)
+    peak_all = tracemalloc.get_traced_memory()[1] - base
+    tracemalloc.stop()
+    del big_r
+
+    cold = ("import time, sys; t=time.perf_counter(); from pwmkit.timing import astable; "
+            "r=astable('pot', ra='1k', rb='1k', pot='100k', wiper=0.5, c='2.2n', vcc=12); r.frequency; "
+            "print(time.perf_counter()-t, 'sympy' in sys.modules)")
+    cold_runs = [subprocess.run([sys.executable, "-c", cold], capture_output=True, text=True, check=True).stdout.split()
+                 for _ in range(3)]
+    t_cold = min(float(o[0]) for o in cold_runs)
+
     code = ("import time; t=time.perf_counter(); import pwmkit, sys; dt=time.perf_counter()-t; "
             "print(dt, ','.join(m for m in ('sympy','ipywidgets','bokeh','scipy') if m in sys.modules) or 'none')")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.split()
@@ -116,7 +172,18 @@ def main() -> None:
     print(f"  plain-Python loop (extrap.) {t_formula_loop * 1e3:9.1f} ms   loop / pwmkit = "
           f"{t_formula_loop / t_pwm:5.1f}x (target >= 20x)   [derived formula called per element]")
     print(f"  scipy solve_ivp (extrap.)   {t_ode:9.1f} s    ode / pwmkit  = {t_ode / t_pwm:8.0f}x")
+    print(f"astable('pot') over {n:,} elements (frequency and duty read)")
+    print(f"  pwmkit.timing.astable       {t_pot * 1e3:9.1f} ms")
+    print(f"  hand-written numpy          {t_pot_np * 1e3:9.1f} ms   pwmkit / numpy = {t_pot / t_pot_np:5.2f}x "
+          "(target <= 2x)")
+    mb = big.nbytes / 1e6
+    print(f"astable('steered', ra=<10,000,000 floats>, rest scalars): input {mb:.0f} MB")
+    print(f"  peak during the call        {peak_call / 1e6:9.1f} MB   = {peak_call / big.nbytes:4.2f}x input "
+          "(target <= 4x)")
+    print(f"  peak after reading frequency and duty {peak_all / 1e6:6.1f} MB = {peak_all / big.nbytes:4.2f}x input")
     print(f"import pwmkit: {float(out[0]) * 1e3:.1f} ms; heavy modules pulled in: {out[1]}")
+    print(f"first astable() in a new process (import included): {t_cold * 1e3:.0f} ms (target <= 500 ms); "
+          f"sympy imported: {cold_runs[0][1]}")
 
 
 if __name__ == "__main__":

@@ -9,7 +9,7 @@ symbolic derivation is first needed, and ipywidgets/bokeh only by
 Layers (arrows only downwards):
 
 1. models — ``values``, ``eseries``, ``parts``, ``timing``, ``loads``;
-2. design — ``tolerance``, ``sensitivity``, ``synthesis``, ``checks``, ``design``, ``record``;
+2. design — ``tolerance``, ``sensitivity``, ``synthesis``, ``checks``, ``design``, ``record``, ``bench``;
 3. presentation — ``widgets``, ``plots``, ``report``, ``schematic``, ``cli``.
 """
 
@@ -18,12 +18,12 @@ from __future__ import annotations
 import importlib
 from typing import Any
 
-from .errors import DesignError, DesignWarning
+from .errors import DesignError, DesignWarning, ModelLimit
 from .values import format_value, parse_value
 
 __version__ = "0.1.0"
 
-__all__ = ["DesignError", "DesignWarning", "parse_value", "format_value", "__version__"]
+__all__ = ["DesignError", "DesignWarning", "ModelLimit", "parse_value", "format_value", "__version__"]
 
 _LAZY = {
     "values",
@@ -39,6 +39,7 @@ _LAZY = {
     "evaluate",
     "cautions",
     "record",
+    "bench",
     "plots",
     "schematic",
     "widgets",

@@ -223,6 +223,7 @@ REASONS = {
     "latch_low": "the discharge path heads for a voltage at or above the lower threshold (output latches low)",
     "short": "the discharge path resistance is zero",
     "non_physical": "a drawn component value is zero or negative (normal band too wide)",
+    "out_of_range": "a drawn component value lies outside the plausible range of pwmkit.ranges",
 }
 
 
@@ -242,12 +243,24 @@ def feasible(model: Model, v: Mapping[str, Any], m: int) -> tuple[np.ndarray, di
         high = ~(b(p.v_charge) > b(v["vctl"]))
         low = ~(b(p.v_discharge) < b(v["vctl"]) / 2.0)
         short = ~(b(p.r_discharge) > 0)
-    bad_phys = ~phys
+    from .ranges import RANGES
+
+    inside = np.ones(m, dtype=bool)
+    names = ("ra", "rb", "c", "vcc", "vd", "vsat", "r_on") + (("pot",) if model.topology == "pot" else ())
+    for name in names:
+        rg = RANGES[name]
+        x = b(v[name])
+        with np.errstate(invalid="ignore"):
+            inside &= (x >= rg.low) if rg.low_inclusive else (x > rg.low)
+            inside &= (x <= rg.high) if rg.high_inclusive else (x < rg.high)
+    out_of_range = phys & ~inside
+    phys = phys & inside
+    bad_phys = ~phys & ~out_of_range
     high &= phys
     low &= phys & ~high
     short &= phys & ~high & ~low
-    ok = ~(bad_phys | high | low | short)
-    counts = {"non_physical": int(bad_phys.sum()), "latch_high": int(high.sum()), "latch_low": int(low.sum()),
+    ok = ~(bad_phys | out_of_range | high | low | short)
+    counts = {"non_physical": int(bad_phys.sum()), "out_of_range": int(out_of_range.sum()), "latch_high": int(high.sum()), "latch_low": int(low.sum()),
               "short": int(short.sum())}
     return ok, {k: c for k, c in counts.items() if c}
 

@@ -34,6 +34,7 @@ def quantity(
     maximum: float | None = None,
     min_inclusive: bool = True,
     max_inclusive: bool = True,
+    allowed: str | None = None,
 ) -> float | np.ndarray:
     """Turn a float, an engineering string or an array into float(s) and check the range.
 
@@ -47,6 +48,9 @@ def quantity(
         Unit symbol used in error messages.
     minimum, maximum : float, optional
         Allowed range; ``min_inclusive``/``max_inclusive`` choose the bounds' kind.
+    allowed : str, optional
+        The range as the message should state it (e.g. ``"1 Ω ≤ ra ≤ 1 GΩ"``, from
+        :mod:`pwmkit.ranges`); default: the violated bound.
 
     Returns
     -------
@@ -56,7 +60,8 @@ def quantity(
     Raises
     ------
     DesignError
-        Text that does not parse, non-finite numbers, or values out of range.
+        Text that does not parse or carries another unit, non-finite numbers, booleans (also
+        boolean arrays), or values out of range.
     """
     if isinstance(value, bool) or value is None:
         raise DesignError(f"{name}: {_describe(value)} is not a number; give a value in {unit or 'SI units'}")
@@ -64,19 +69,33 @@ def quantity(
         from .values import parse_value
 
         try:
-            arr: Any = parse_value(value)
+            arr: Any = parse_value(value, unit, name=name)
         except DesignError as exc:
-            raise DesignError(f"{name}: {exc}") from None
-    elif isinstance(value, (int, float, np.integer, np.floating)):
-        arr = float(value)
+            msg = str(exc)
+            raise DesignError(msg if msg.startswith(name) else f"{name}: {msg}") from None
+    elif isinstance(value, (int, float, np.integer, np.floating)) and not isinstance(value, np.bool_):
+        try:
+            arr = float(value)
+        except OverflowError:
+            raise DesignError(f"{name}: a number of about {int(int(value).bit_length() * 0.30103) + 1} digits is far out of range; give "
+                              f"a value in {unit or 'SI units'}") from None
     else:
         try:
             if isinstance(value, (list, tuple)) and any(isinstance(v, str) for v in value):
                 from .values import parse_value
 
-                value = [parse_value(v) if isinstance(v, str) else v for v in value]
-            arr = np.asarray(value, dtype=float)
-        except (TypeError, ValueError) as exc:
+                value = [parse_value(v, unit, name=name) if isinstance(v, str) else v for v in value]
+            raw = np.asarray(value)
+            if isinstance(value, (list, tuple)) and raw.dtype.kind not in "bc":  # [True, 1.0] becomes floats
+                if any(isinstance(v, (bool, np.bool_)) for v in np.asarray(value, dtype=object).ravel()):
+                    raw = np.asarray(value, dtype=object)
+            if raw.dtype.kind in "bc" or raw.dtype == object and any(isinstance(v, (bool, np.bool_)) for v in raw.flat):
+                what = "true/false values" if raw.dtype.kind in "bO" else "complex numbers"
+                raise DesignError(f"{name}: {_describe(value)} holds {what}; give numbers in {unit or 'SI units'}")
+            arr = np.asarray(raw, dtype=float)
+        except (TypeError, ValueError, OverflowError) as exc:
+            if isinstance(exc, DesignError):
+                raise
             raise DesignError(f"{name}: {_describe(value)} is not a number or array of numbers ({exc})") from None
         if arr.ndim == 0:
             arr = float(arr)
@@ -90,10 +109,10 @@ def quantity(
     u = f" {unit}" if unit else ""
     if minimum is not None and a.size and (lowest < minimum or (not min_inclusive and lowest <= minimum)):
         rel = ">=" if min_inclusive else ">"
-        raise DesignError(f"{name}: {lowest:g}{u} is out of range; allowed {name} {rel} {minimum:g}{u}")
+        raise DesignError(f"{name}: {lowest:g}{u} is out of range; allowed {allowed or f'{name} {rel} {minimum:g}{u}'}")
     if maximum is not None and a.size and (highest > maximum or (not max_inclusive and highest >= maximum)):
         rel = "<=" if max_inclusive else "<"
-        raise DesignError(f"{name}: {highest:g}{u} is out of range; allowed {name} {rel} {maximum:g}{u}")
+        raise DesignError(f"{name}: {highest:g}{u} is out of range; allowed {allowed or f'{name} {rel} {maximum:g}{u}'}")
     return arr
 
 

@@ -10,6 +10,9 @@ Subcommands:
     execute saved design notebooks again and report drift of their recorded key results.
 ``export DESIGN.toml --formulas/--bom/--report [FILE]``
     write the formula sheet, the bill of materials or the HTML report, inside ``--out-dir`` only.
+``bench add DESIGN.toml CAPTURE.csv`` / ``bench show DESIGN.toml``
+    keep bench readings and scope captures with a design file and compare them with the design
+    (:mod:`pwmkit.cli_bench`).
 ``find``, ``new NAME``
     ranked part sets for a target; a design file and record notebook of your own
     (:mod:`pwmkit.cli_design`).
@@ -43,8 +46,25 @@ __all__ = ["main", "build_parser", "FORMULA_SUFFIXES"]
 FORMULA_SUFFIXES = {".md": "markdown", ".tex": "latex", ".txt": "unicode", ".py": "python", ".c": "c"}
 
 
+def _terminal_safe(text: str) -> str:
+    """``text`` with control characters (ANSI escapes, bidi overrides …) written as visible escapes.
+
+    File names on the command line and in messages come from the user's disk; printing them raw
+    could move the cursor, recolour the terminal or reorder the text.
+    """
+    out = []
+    for ch in str(text):
+        code = ord(ch)
+        if code < 0x20 and ch != "\n" or 0x7F <= code < 0xA0 or 0x202A <= code <= 0x202E or 0x2066 <= code <= 0x2069 \
+                or code in (0x061C, 0x200E, 0x200F, 0x2028, 0x2029):
+            out.append(f"\\x{code:02x}" if code < 0x100 else f"\\u{code:04x}")
+        else:
+            out.append(ch)
+    return "".join(out)
+
+
 def _progress(text: str) -> None:
-    print(text, file=sys.stderr, flush=True)
+    print(_terminal_safe(text), file=sys.stderr, flush=True)
 
 
 # ------------------------------------------------------------------------------------------------
@@ -134,7 +154,7 @@ def _check(args: argparse.Namespace) -> int:
             ev = evaluate(design, spread=not args.quick, n_mc=args.n_mc, seed=args.seed)
         except DesignError as exc:
             msg = str(exc) if str(exc).startswith(str(name)) else f"{name}: {exc}"
-            print(f"pwmkit: error: {msg}", file=sys.stderr)
+            print(f"pwmkit: error: {_terminal_safe(msg)}", file=sys.stderr)
             report.append({"file": str(name), "error": msg})
             code = max(code, 2)
             continue
@@ -151,7 +171,7 @@ def _check(args: argparse.Namespace) -> int:
         from .glossary import plural, severity_count, topology_label
         from .numstyle import screen
 
-        print(f"{name} — {design.name}: {topology_label(design.timing.topology)} topology, "
+        print(f"{_terminal_safe(name)} — {design.name}: {topology_label(design.timing.topology)} topology, "
               f"{screen(t.frequency, 'Hz')}, duty {screen(t.duty, 'duty')}; {severity_count('fail', fs.fail_count)}, "
               f"{severity_count('warn', fs.warn_count)}, {severity_count('ok', fs.ok_count)}"
               + (f", {plural(fs.not_run_count, 'check')} not run (--quick)" if fs.not_run_count else ""))
@@ -179,13 +199,13 @@ def _rerun(args: argparse.Namespace) -> int:
         _progress(f"pwmkit rerun: {name} …")
         outcome = rerun_notebook(name, rtol=args.rtol, atol=args.atol, timeout=args.timeout, update=args.update,
                                  kernel=args.kernel)
-        if outcome.status in ("error", "unrecorded"):
-            print(f"pwmkit: error: {outcome.message}", file=sys.stderr)
-        print(outcome.message + (f" [{outcome.seconds:.1f} s]" if outcome.seconds else ""))
+        if outcome.status in ("error", "unrecorded", "unreadable"):  # errors on stderr only, once
+            print(f"pwmkit: error: {_terminal_safe(outcome.message)}", file=sys.stderr)
+        else:
+            print(_terminal_safe(outcome.message) + (f" [{outcome.seconds:.1f} s]" if outcome.seconds else ""))
         for drift in outcome.drifts:
             print(f"  {drift.describe()}")
-        if outcome.failed:
-            code = 1
+        code = max(code, outcome.exit_status)
     return code
 
 
@@ -247,6 +267,12 @@ def _export(args: argparse.Namespace) -> int:
 # ------------------------------------------------------------------------------------------------
 # lab
 # ------------------------------------------------------------------------------------------------
+def _note_root(cmd: list[str]) -> None:
+    """Say so when JupyterLab is started with ``--allow-root`` (the effective user is root)."""
+    if "--allow-root" in cmd:
+        _progress("pwmkit lab: running as root, so JupyterLab gets --allow-root (it refuses root otherwise)")
+
+
 def _lab(args: argparse.Namespace) -> int:
     import subprocess
 
@@ -265,6 +291,7 @@ def _lab(args: argparse.Namespace) -> int:
     headless = args.headless if args.headless is not None else not nbs.display_available()
     if not headless:
         cmd = nbs.lab_command(folder.resolve())
+        _note_root(cmd)
         _progress("pwmkit lab: starting JupyterLab (stop it with Ctrl-C): " + " ".join(cmd))
         try:
             return subprocess.call(cmd)
@@ -299,6 +326,21 @@ def _lab(args: argparse.Namespace) -> int:
 # ------------------------------------------------------------------------------------------------
 # parser and entry point
 # ------------------------------------------------------------------------------------------------
+def _whole(low: int, high: int) -> Any:
+    """argparse type: a whole number in low … high (else a usage error, exit status 2)."""
+    def read(text: str) -> int:
+        try:
+            v = int(text.strip(), 10)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{text[:40]!r} is not a whole number") from None
+        if not low <= v <= high:
+            raise argparse.ArgumentTypeError(f"{text[:40]!r} is out of range; allowed {low} … {high}")
+        return v
+
+    read.__name__ = "whole number"
+    return read
+
+
 def _positive_float(text: str) -> float:
     try:
         v = float(text)
@@ -322,7 +364,8 @@ def _nonneg_float(text: str) -> float:
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="pwmkit", description="Design aid for 555-type astable PWM drivers.",
-        epilog="Exit status: 0 fine, 1 a check failed / results drifted / a notebook failed, 2 bad input.")
+        epilog="Exit status: 0 fine, 1 a check failed / results drifted / a notebook failed, 2 bad input "
+               "(missing or unreadable file, invalid design, bad option), 3 internal error.")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
 
     p = sub.add_parser("demo", help="print the demo designs' exact timing next to the 0.693 estimate")
@@ -335,8 +378,9 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--json", action="store_true", help="print one JSON document (key results and findings)")
     p.add_argument("--brief", action="store_true", help="list only failed and warning rules")
     p.add_argument("--quick", action="store_true", help="skip the tolerance analysis (Monte Carlo, worst case)")
-    p.add_argument("--n-mc", type=int, default=20_000, metavar="N", help="Monte Carlo samples (default 20000)")
-    p.add_argument("--seed", type=int, default=1, help="Monte Carlo seed (default 1)")
+    p.add_argument("--n-mc", type=_whole(100, 2_000_000), default=20_000, metavar="N",
+                   help="Monte Carlo samples, 100 … 2000000 (default 20000)")
+    p.add_argument("--seed", type=_whole(0, 2**63 - 1), default=1, help="Monte Carlo seed, a whole number >= 0 (default 1)")
     p.set_defaults(handler=_check)
 
     p = sub.add_parser("rerun", help="re-run saved design notebooks and report drift of their recorded results",
@@ -382,6 +426,10 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--source", default=None, help=argparse.SUPPRESS)  # tests: another notebooks folder
     p.set_defaults(handler=_lab)
 
+    from .cli_bench import register_bench
+
+    register_bench(sub)
+
     from .cli_design import add_commands  # find, new
 
     add_commands(sub)
@@ -402,7 +450,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         return int(handler(args))
     except DesignError as exc:
-        print(f"pwmkit: error: {exc}", file=sys.stderr)
+        print(f"pwmkit: error: {_terminal_safe(str(exc))}", file=sys.stderr)
         return 2
     except BrokenPipeError:  # output piped into e.g. `head`, which stopped reading: not an error
         try:
@@ -413,7 +461,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 0
     except OSError as exc:
         where = f"{exc.filename}: " if getattr(exc, "filename", None) else ""
-        print(f"pwmkit: error: {where}{exc.strerror or exc}", file=sys.stderr)
+        print(f"pwmkit: error: {_terminal_safe(where)}{exc.strerror or exc}", file=sys.stderr)
         return 2
     except KeyboardInterrupt:  # pragma: no cover - interactive
         print("pwmkit: interrupted", file=sys.stderr)
@@ -421,7 +469,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     except Exception as exc:
         if os.environ.get("PWMKIT_DEBUG"):
             raise
-        print(f"pwmkit: internal error: {type(exc).__name__}: {exc} (set PWMKIT_DEBUG=1 for the traceback)",
+        print(f"pwmkit: internal error: {type(exc).__name__}: {_terminal_safe(str(exc))} (set PWMKIT_DEBUG=1 for "
+              "the traceback)",
               file=sys.stderr)
         return 3
 

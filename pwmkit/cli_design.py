@@ -49,9 +49,10 @@ def parse_range(text: str, option: str, unit: str) -> tuple[float, float | None]
         raise DesignError(f"{option}: {text!r} is not allowed; give a value or a range LOW..HIGH, e.g. "
                           + ("20..90%" if unit == "%" else "25k or 20k..30k"))
     try:
-        values = [parse_value(p) for p in parts]
+        values = [parse_value(p, "" if unit == "%" else unit, name=option) for p in parts]  # unit checked
     except DesignError as exc:
-        raise DesignError(f"{option}: {exc}") from None
+        msg = str(exc)
+        raise DesignError(msg if msg.startswith(option) else f"{option}: {msg}") from None
     if percent or unit == "%":
         values = [v / 100.0 if percent else v for v in values]
     lo = float(values[0])
@@ -94,7 +95,7 @@ def design_from_options(args: argparse.Namespace, name: str = "design") -> Any:
                            flicker=args.flicker, **duty)
     except DesignError as exc:
         raise DesignError(f"{exc} (from --frequency/--tolerance/--duty/--criterion)") from None
-    vcc = float(parse_value(args.vcc))
+    vcc = float(parse_value(args.vcc, "V", name="--vcc"))
     v_lo, v_hi = (parse_range(args.vcc_range, "--vcc-range", "V") if args.vcc_range else (vcc, vcc))
     t_lo, t_hi = parse_range(args.ambient, "--ambient", "°C") if args.ambient else (0.0, 40.0)
     if t_hi is None:
@@ -110,11 +111,13 @@ def design_from_options(args: argparse.Namespace, name: str = "design") -> Any:
 
         if args.colour not in TYPICAL_VF:
             raise DesignError(f"--colour: {args.colour!r} is not a known LED colour; allowed: {', '.join(TYPICAL_VF)}")
-        load = LedLoad(n_series=args.leds, n_parallel=args.strings, vf=parse_value(args.vf),
-                       r_series=parse_value(args.led_resistor), colour=args.colour)
+        load = LedLoad(n_series=args.leds, n_parallel=args.strings, vf=parse_value(args.vf, "V", name="--vf"),
+                       r_series=parse_value(args.led_resistor, "Ω", name="--led-resistor"), colour=args.colour)
     elif kind == "motor":
-        load = MotorLoad(r=parse_value(args.motor_r), l=parse_value(args.motor_l), ke=parse_value(args.motor_ke),
-                         j=parse_value(args.motor_j), t_load=parse_value(args.motor_torque))
+        load = MotorLoad(r=parse_value(args.motor_r, "Ω", name="--motor-r"), l=parse_value(args.motor_l, "H", name="--motor-l"),
+                         ke=parse_value(args.motor_ke, "V·s/rad", name="--motor-ke"),
+                         j=parse_value(args.motor_j, "kg·m²", name="--motor-j"),
+                         t_load=parse_value(args.motor_torque, "N·m", name="--motor-torque"))
     t_nom = min(max(25.0, t_lo), t_hi)
     v_min, v_max = v_lo, (v_hi if v_hi is not None else v_lo)
     d = Design(name=name, vcc=vcc, vcc_min=v_min, vcc_max=v_max, timing=timing, load=load, switch=Switch(),

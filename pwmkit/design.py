@@ -44,6 +44,53 @@ def _num(obj: Any, name: str, *, unit: str = "", optional: bool = False, **limit
     object.__setattr__(obj, name, v)
 
 
+def _ranged(obj: Any, name: str, *, optional: bool = False, key: str | None = None) -> None:
+    """Read and check a field against its row of :data:`pwmkit.ranges.RANGES` (the API's table too)."""
+    from .ranges import range_of
+
+    r = range_of(key or name)
+    path = f"{type(obj).__name__.lower()}.{name}"
+    value = getattr(obj, name)
+    if value is not None:
+        from .ranges import checked
+
+        v = checked(value, path, key or name)
+        if not isinstance(v, float):
+            raise DesignError(f"{path}: expected one number, got an array")
+        object.__setattr__(obj, name, v)
+        return
+    _num(obj, name, unit=r.unit, optional=optional, **r.limits())
+
+
+#: Characters refused in names and notes: C0/C1 controls (ANSI escapes start with ESC), DEL, and the
+#: Unicode bidirectional overrides/isolates that can make text read differently than it is stored.
+_BIDI = frozenset("\u061c\u200e\u200f\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069")
+
+
+def _bad_char(text: str, multiline: bool) -> str | None:
+    for ch in text:
+        code = ord(ch)
+        if multiline and ch in "\n\t":
+            continue
+        if code < 0x20 or 0x7F <= code < 0xA0 or ch in _BIDI or code in (0x2028, 0x2029):
+            return ch
+    return None
+
+
+def _plain_text(obj: Any, name: str, *, multiline: bool = False) -> None:
+    """Refuse control characters, ANSI escapes and bidi overrides (they would print raw to terminals).
+
+    Used for the design name, which every output prints (terminal, Markdown headings, code
+    comments); free-text notes may hold any character and are escaped where they are written.
+    """
+    text = getattr(obj, name)
+    ch = _bad_char(text, multiline)
+    if ch is not None:
+        allowed = "printable text, line breaks and tabs" if multiline else "printable text on one line"
+        raise DesignError(f"{type(obj).__name__.lower()}.{name}: contains the control character U+{ord(ch):04X}; "
+                          f"allowed: {allowed} (no control, escape or bidirectional-override characters)")
+
+
 def _choice(obj: Any, name: str, allowed: tuple[str, ...]) -> None:
     value = getattr(obj, name)
     if not isinstance(value, str) or value.strip().lower() not in allowed:
@@ -84,7 +131,7 @@ class Requirements:
     min_yield: Any = 0.99
 
     def __post_init__(self) -> None:
-        _num(self, "frequency", unit="Hz", optional=True, minimum=0.0, min_inclusive=False)
+        _ranged(self, "frequency", optional=True)
         _num(self, "frequency_tolerance", minimum=0.0, maximum=1.0)
         for name in ("duty", "duty_min", "duty_max"):
             _num(self, name, optional=True, minimum=0.0, maximum=1.0)
@@ -155,21 +202,17 @@ class Timing:
         _choice(self, "topology", _TOPOLOGIES)
         _choice(self, "timer", ("bipolar", "cmos"))
         _choice(self, "c_dielectric", _DIELECTRICS)
-        _num(self, "ra", unit="Ω", minimum=0.0, min_inclusive=False)
-        _num(self, "rb", unit="Ω", minimum=0.0)
-        _num(self, "c", unit="F", minimum=0.0, min_inclusive=False)
+        _ranged(self, "ra")
+        _ranged(self, "rb")
+        _ranged(self, "c")
         if self.topology == "pot":
-            _num(self, "pot", unit="Ω", minimum=0.0, min_inclusive=False)
-            _num(self, "wiper", minimum=0.0, maximum=1.0)
+            _ranged(self, "pot")
+            _ranged(self, "wiper")
         elif self.pot is not None or self.wiper is not None:
             raise DesignError(f"timing.pot: only the 'pot' topology uses a potentiometer (topology is "
                               f"{self.topology!r}); remove pot and wiper")
-        _num(self, "vd", unit="V", optional=True, minimum=0.0, maximum=5.0)
-        _num(self, "vsat", unit="V", optional=True, minimum=0.0, maximum=5.0)
-        _num(self, "r_on", unit="Ω", optional=True, minimum=0.0)
-        _num(self, "vctl", unit="V", optional=True, minimum=0.0, min_inclusive=False)
-        _num(self, "r_cv", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
-        _num(self, "cv_bypass", unit="F", optional=True, minimum=0.0, min_inclusive=False)
+        for name in ("vd", "vsat", "r_on", "vctl", "r_cv", "cv_bypass"):
+            _ranged(self, name, optional=True)
         if self.vctl is not None and self.r_cv is not None:
             raise DesignError("timing.vctl: give either a control voltage (vctl) or a control-pin resistor "
                               "(r_cv), not both")
@@ -335,6 +378,8 @@ class Design:
     requirements : Requirements
     notes : free text for the design record
     revision : revision note for the design record, e.g. "rev B: R2 4k7 → 3k9 after the bench test"
+    bench : bench readings of the built driver, tuple of :class:`pwmkit.bench.BenchReading`
+        (``[[bench]]`` in the design file; compared with the design by :func:`pwmkit.bench.reconcile`)
     """
 
     name: str = "design"
@@ -352,16 +397,23 @@ class Design:
     requirements: Requirements = field(default_factory=Requirements)
     notes: str = ""
     revision: str = ""
+    bench: tuple[Any, ...] = ()
 
     def __post_init__(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip() or len(self.name) > 200:
             raise DesignError(f"design.name: {self.name!r} is not allowed; give 1–200 characters")
-        _num(self, "vcc", unit="V", minimum=0.0, min_inclusive=False, maximum=100.0)
-        _num(self, "v_load", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
-        _num(self, "vcc_min", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
-        _num(self, "vcc_max", unit="V", optional=True, minimum=0.0, min_inclusive=False, maximum=100.0)
+        _plain_text(self, "name")
+        _ranged(self, "vcc")
+        for name in ("v_load", "vcc_min", "vcc_max"):
+            _ranged(self, name, optional=True)
         for name in ("t_ambient_c", "t_ambient_min_c", "t_ambient_max_c"):
-            _num(self, name, unit="°C", minimum=-60.0, maximum=150.0)
+            _ranged(self, name, key="t_ambient_c")
+        if self.vcc_min is not None and self.vcc_max is not None and self.vcc_min > self.vcc_max:
+            raise DesignError(f"design.vcc_min: {self.vcc_min:g} V is above vcc_max {self.vcc_max:g} V; allowed "
+                              "vcc_min <= vcc <= vcc_max")
+        if self.t_ambient_min_c > self.t_ambient_max_c:
+            raise DesignError(f"design.t_ambient_min_c: {self.t_ambient_min_c:g} °C is above t_ambient_max_c "
+                              f"{self.t_ambient_max_c:g} °C; allowed t_ambient_min_c <= t_ambient_max_c")
         if not self.t_ambient_min_c <= self.t_ambient_c <= self.t_ambient_max_c:
             raise DesignError(f"design.t_ambient_c: {self.t_ambient_c} °C lies outside the ambient range "
                               f"{self.t_ambient_min_c}…{self.t_ambient_max_c} °C")
@@ -380,6 +432,32 @@ class Design:
         if not isinstance(self.revision, str) or len(self.revision) > 2000:
             raise DesignError(f"design.revision: {self.revision!r:.60} is not allowed; give text of at most "
                               "2000 characters")
+        self._check_bench()
+
+    def _check_bench(self) -> None:
+        """Readings must be BenchReading objects.
+
+        A reading's wiper on a design without a pot is allowed here (a dashboard may switch the
+        topology while exploring; :func:`pwmkit.bench.reconcile_design` then ignores that wiper);
+        design files refuse it (:func:`pwmkit.bench.readings.check_conditions`).
+        """
+        if not self.bench:
+            object.__setattr__(self, "bench", ())
+            return
+        from .bench.readings import BenchReading
+
+        if not isinstance(self.bench, (tuple, list)):
+            raise DesignError(f"bench: expected a sequence of BenchReading, got {type(self.bench).__name__}")
+        object.__setattr__(self, "bench", tuple(self.bench))
+        for i, reading in enumerate(self.bench):
+            if not isinstance(reading, BenchReading):
+                raise DesignError(f"bench[{i}]: expected a BenchReading, got {type(reading).__name__}")
+            reading.check(i)
+
+    def with_reading(self, reading: Any) -> Design:
+        """A copy with one more bench reading (a :class:`pwmkit.bench.BenchReading`) at the end."""
+        return dataclasses.replace(self, bench=(*self.bench, reading))
+
 
     # -- convenience -------------------------------------------------------------------------
     @property
@@ -412,19 +490,21 @@ class Design:
         return dataclasses.replace(self, timing=dataclasses.replace(self.timing, **changes))
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain nested dict (JSON/TOML-ready; None values kept)."""
-        return dataclasses.asdict(self)
+        """Plain nested dict (JSON/TOML-ready; None values kept; ``bench`` only when there are readings)."""
+        out = dataclasses.asdict(self)
+        if not self.bench:
+            out.pop("bench")
+        return out
 
     def _repr_html_(self) -> str:
-        """Notebook display: the part values and the annotated schematic.
+        """Notebook display: the part values, then what the presentation layer registered.
 
-        The schematic comes from :func:`pwmkit.schematic.for_design`, imported only here (a
-        display hook; the design layer does not otherwise depend on the drawing). If it cannot
-        be drawn (schemdraw missing, or a timing that does not oscillate) the table is shown
-        with a one-line note instead.
+        :mod:`pwmkit.schematic` registers the annotated schematic (see :mod:`pwmkit._display`), so
+        this design layer imports no drawing code; without it the table is shown alone.
         """
         import html
 
+        from ._display import extra_html
         from .values import format_value
 
         t = self.timing
@@ -437,14 +517,8 @@ class Design:
             rows.append(("load", self.load.kind))
         body = "".join(f"<tr><th style='text-align:left;padding-right:1em'>{html.escape(k)}</th>"
                        f"<td>{html.escape(v)}</td></tr>" for k, v in rows)
-        try:
-            from .schematic import for_design
-
-            drawing = for_design(self).svg
-        except (DesignError, ImportError) as exc:
-            drawing = f"<p><em>schematic not drawn: {html.escape(str(exc))}</em></p>"
         return (f"<div class='pwmkit-design'><strong>{html.escape(self.name)}</strong>"
-                f"<table>{body}</table>{drawing}</div>")
+                f"<table>{body}</table>{extra_html('design', self)}</div>")
 
 
 def demo_designs() -> dict[str, Design]:

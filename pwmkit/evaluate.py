@@ -31,7 +31,7 @@ from typing import Any
 
 import numpy as np
 
-from .errors import DesignError
+from .errors import DesignError, ModelLimit
 
 __all__ = ["Evaluation", "PotTravel", "TimerOutput", "SupplyCorners", "LedCorners", "Conditions", "evaluate",
            "timing_kwargs", "tolerance_kwargs", "dielectric_of", "TRAVEL_POINTS", "SPEED_ITERATIONS"]
@@ -288,6 +288,8 @@ class Evaluation:
         ``spread.duty_p01|p50|p99``, ``spread.frequency_std|n_failed|yield``;
         ``worst_case.frequency_min|frequency_max|duty_min|duty_max``;
         ``sensitivity.frequency.<parameter>`` (∂ln f/∂ln x), ``sensitivity.frequency_rel_std``;
+        ``bench.readings|inside|percentile_frequency|percentile_duty|culprit``, ``bench.estimate.<part>``
+        (designs with bench readings, full mode; :func:`pwmkit.bench.reconcile_design`);
         ``requirements.frequency_low|frequency_high|duty_low|duty_high|frequency_yield|duty_yield``;
         ``findings.fail_count|warn_count|worst``.
         """
@@ -353,6 +355,22 @@ class Evaluation:
             for row in self.sensitivity.rows:
                 put(f"sensitivity.frequency.{row.name}", row.s_frequency)
             put("sensitivity.frequency_rel_std", self.sensitivity.frequency_rel_std)
+        if self.design.bench and self.spread is not None:  # bench readings against the design
+            from .bench.reconciliation import reconcile_design
+
+            try:
+                rec = reconcile_design(self.design, n=max(int(self.spread.n), 1000), seed=int(self.spread.seed or 0))
+            except DesignError:  # the bench.match finding says why
+                rec = None
+            if rec is not None:
+                put("bench.readings", float(len(rec.readings)))
+                put("bench.inside", 1.0 if rec.inside else 0.0)
+                for q, p in rec.percentile.items():
+                    put(f"bench.percentile_{q}", p)
+                put("bench.culprit", rec.culprit)
+                for part in ("c", "ra", "rb", "pot", "vd", "timer"):
+                    if part in rec.estimates:
+                        put(f"bench.estimate.{part}", rec.estimates[part])
         rs = self.requirement_spread
         if rs is not None:
             group("requirements", rs, "frequency_low frequency_high duty_low duty_high")
@@ -462,7 +480,7 @@ def _tolerance_part(design: Any, kw: dict[str, Any], n: int, seed: int) -> tuple
     for label, call in calls:
         try:
             results.append(call())
-        except DesignError as exc:
+        except ModelLimit as exc:  # only expected limits become notes; bad input surfaces
             results.append(None)
             notes.append(f"{label}: {exc}")
     mc = results[0]
@@ -494,7 +512,7 @@ def _pot_travel(topology: str, kw: dict[str, Any]) -> PotTravel:
             args = dict(kw, wiper=w)
             r = astable(topology, **args)
             ideal = astable_ideal(topology, ra=kw["ra"], rb=kw["rb"], c=kw["c"], vcc=kw["vcc"], pot=kw["pot"], wiper=w)
-        except DesignError:
+        except ModelLimit:
             if i == len(grids) - 1:
                 raise
             continue
@@ -516,7 +534,7 @@ def _corners(design: Any, kw: dict[str, Any], travel: PotTravel | None) -> Suppl
             args["vctl"] = control_voltage_from_divider(vcc, design.timing.r_cv, design.timing.timer)
         try:
             out.append(astable(design.timing.topology, **args))
-        except DesignError as exc:
+        except ModelLimit as exc:
             return SupplyCorners(lo, hi, None, None, f"at {vcc:.4g} V: {exc}")
     return SupplyCorners(lo, hi, out[0], out[1], None)
 
@@ -561,7 +579,7 @@ def _led_part(design: Any, timing: Any, gate: Any, p: dict[str, Any]) -> None:
     try:
         low = drive(lo) if lo != design.load_supply else p["led"]
         p["led_corners"] = LedCorners(low, high, None)
-    except DesignError as exc:
+    except ModelLimit as exc:
         p["led_corners"] = LedCorners(None, high, str(exc))
 
 
@@ -661,8 +679,8 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         raise DesignError(f"design: expected a pwmkit.design.Design, got {type(design).__name__}")
     if isinstance(n_mc, bool) or not isinstance(n_mc, (int, np.integer)) or not 100 <= n_mc <= 2_000_000:
         raise DesignError(f"n_mc: {n_mc!r} is not allowed; give a whole number 100 … 2000000")
-    if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)):
-        raise DesignError(f"seed: {seed!r} is not allowed; give a whole number")
+    if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)) or seed < 0:
+        raise DesignError(f"seed: {seed!r} is not allowed; give a whole number >= 0")
     want_diode_law = bool(spread) if diode_law is None else bool(diode_law)
     t = design.timing
     with np.errstate(all="ignore"):
@@ -671,7 +689,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         try:  # None when the textbook form is degenerate (rb = 0 at a wiper end)
             ideal = astable_ideal(t.topology, ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, pot=kw.get("pot"),
                                   wiper=kw.get("wiper"))
-        except DesignError:
+        except ModelLimit:
             ideal = None
         travel = _pot_travel(t.topology, kw) if t.topology == "pot" else None
         corners = _corners(design, kw, travel)
@@ -682,7 +700,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
             try:
                 gate = gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
                                   design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low)
-            except DesignError as exc:
+            except ModelLimit as exc:
                 gate_error = str(exc)
         p: dict[str, Any] = dict(led=None, led_corners=None, flicker=None, lightness=None, motor=None,
                                  motor_speed=None, motor_stall=None, motor_stall_diode=None, freewheel=None,

@@ -55,7 +55,7 @@ from ._spread import (
     sample,
     values,
 )
-from .errors import DesignError
+from .errors import DesignError, ModelLimit
 from .sensitivity import parameters_of, partials
 
 __all__ = ["Histogram", "SpreadPercentiles", "SpreadResult", "ExtremePoint", "WorstCaseResult", "monte_carlo",
@@ -269,11 +269,11 @@ def monte_carlo(topology: str, *, n: int, seed: Any, tolerances: Mapping[str, An
     freq, duty, ok, reasons = evaluate(model, dev, int(n))
     n_failed = int(n - ok.sum())
     if n_failed and not allow_failures:
-        raise DesignError(f"monte_carlo: {n_failed} of {n} samples do not oscillate ({reason_text(reasons)}); "
+        raise ModelLimit(f"monte_carlo: {n_failed} of {n} samples do not oscillate ({reason_text(reasons)}); "
                           "narrow the tolerances or move the design away from the limit, or pass "
                           "allow_failures=True to count them as failures in the yield")
     if n_failed == n:
-        raise DesignError(f"monte_carlo: none of the {n} samples oscillates ({reason_text(reasons)})")
+        raise ModelLimit(f"monte_carlo: none of the {n} samples oscillates ({reason_text(reasons)})")
     if n_failed:
         freq, duty = freq[ok], duty[ok]
     yield_ = None
@@ -495,7 +495,7 @@ def worst_case(topology: str, *, tolerances: Mapping[str, Any] | None, dielectri
     if not ok.all():
         bad = int(np.argmax(~ok))
         where = ", ".join(f"{d.label} {dev[d.key][bad]:+.4g}" for d in dims)
-        raise DesignError(f"worst_case: at the point ({where}) the circuit does not oscillate "
+        raise ModelLimit(f"worst_case: at the point ({where}) the circuit does not oscillate "
                           f"({reason_text(reasons)}); narrow the tolerances or move the design away from the limit")
     notes: list[str] = []
     need = interior == "always"
@@ -520,7 +520,7 @@ def worst_case(topology: str, *, tolerances: Mapping[str, Any] | None, dielectri
         devi = _box_points(model, dims, ui)
         fi, di, oki, ri = evaluate(model, devi, ui.shape[0])
         if not oki.all():
-            raise DesignError(f"worst_case: inside the box the circuit does not oscillate ({reason_text(ri)})")
+            raise ModelLimit(f"worst_case: inside the box the circuit does not oscillate ({reason_text(ri)})")
         n_eval += ui.shape[0]
         extra_u = [ui]
         extra_f, extra_d = [fi], [di]
@@ -570,7 +570,7 @@ def _compass(model: Model, dims: tuple[Dim, ...], start: np.ndarray, frequency: 
         trial = np.clip(np.vstack([x[None, :], x + step * eye, x - step * eye]), 0.0, 1.0)
         f, d, ok, reasons = evaluate(model, _box_points(model, dims, trial), trial.shape[0])
         if not ok.all():
-            raise DesignError(f"worst_case: inside the box the circuit does not oscillate ({reason_text(reasons)})")
+            raise ModelLimit(f"worst_case: inside the box the circuit does not oscillate ({reason_text(reasons)})")
         count += trial.shape[0]
         visited_u.append(trial)
         visited_f.append(f)
@@ -587,5 +587,5 @@ def _compass(model: Model, dims: tuple[Dim, ...], start: np.ndarray, frequency: 
         if step < 1e-6:
             break
     if not math.isfinite(best if best is not None else math.nan):  # pragma: no cover - guarded above
-        raise DesignError("worst_case: the interior search produced a non-finite value")
+        raise ModelLimit("worst_case: the interior search produced a non-finite value")
     return np.vstack(visited_u), np.concatenate(visited_f), np.concatenate(visited_d), count

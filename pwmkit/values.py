@@ -48,7 +48,7 @@ import numpy as np
 
 from .errors import DesignError
 
-__all__ = ["parse_value", "format_value", "format_rkm", "parse_tolerance"]
+__all__ = ["parse_value", "format_value", "format_rkm", "parse_tolerance", "UNIT_SPELLINGS"]
 
 _MICRO = "µ"  # U+00B5, the one format_value writes
 
@@ -86,7 +86,7 @@ _RKM_EXP = {
 _SIGN = r"(?P<sign>[+-])?"
 _DECIMAL = r"(?P<num>[0-9]+(?:\.[0-9]*)?|\.[0-9]+)"
 _GAP = "[ \u00a0\u202f]?"
-_UNIT = r"(?P<unit>\u03a9|\u2126|[Oo]hms?|Hz|F|V|A|s|W|H)"
+_UNIT = r"(?P<unit>\u03a9|\u2126|[Oo]hms?|Hz|F|V|A|s|W|H|\u00b0C|\u2103|%)"
 _PREFIX = "(?P<prefix>[fpnu\u00b5\u03bcmkKMGT])"
 
 _SCIENTIFIC_RE = re.compile(_SIGN + _DECIMAL + r"(?P<exp>[eE][+-]?[0-9]+)" + f"(?:{_GAP}{_UNIT})?")
@@ -98,8 +98,22 @@ _RKM_RE = re.compile(
 _ALLOWED = (
     "a number such as 4700, 4.7e3 or -1.5; a number with an SI prefix (f p n u µ m k K M G T) such as "
     "4.7k or 100n; or an IEC 60062 code such as 4k7, R47, 470R, 4n7 or p68; optionally followed by a "
-    "unit (Ω, ohm, F, V, A, Hz, s, W, H)"
+    "unit (Ω, ohm, F, V, A, Hz, s, W, H, °C, %)"
 )
+
+#: Unit symbol of a quantity → the spellings that mean it (U+03A9 and U+2126 are both ohm signs).
+UNIT_SPELLINGS: dict[str, tuple[str, ...]] = {
+    "Ω": ("\u03a9", "\u2126", "ohm", "ohms", "Ohm", "Ohms"),
+    "F": ("F",), "V": ("V",), "A": ("A",), "Hz": ("Hz",), "s": ("s",), "W": ("W",), "H": ("H",),
+    "°C": ("\u00b0C", "\u2103"),
+    "%": ("%",), "": ("%",),
+}
+_UNIT_OF = {spelling: unit for unit, spellings in UNIT_SPELLINGS.items() if unit for spelling in spellings}
+#: RKM letters that carry a unit of their own (IEC 60062: R for ohm, F for farad).
+_RKM_UNIT = {"R": "Ω", "F": "F"}
+_UNIT_NAMES = {"Ω": "Ω (ohm)", "F": "F (farad)", "V": "V (volt)", "A": "A (ampere)", "Hz": "Hz (hertz)",
+               "s": "s (second)", "W": "W (watt)", "H": "H (henry)", "°C": "°C", "%": "% or a fraction",
+               "": "a plain number (no unit)"}
 _MAX_TEXT = 100
 
 
@@ -127,7 +141,25 @@ def _number_in(value: Any, what: str, allowed: str = _ALLOWED) -> float:
     return _finite(number, value, what, allowed)
 
 
-def parse_value(text: Any) -> float:
+def _what(name: str) -> str:
+    return "value" if name == "value" else f"{name}: value"
+
+
+def _check_unit(written: str | None, unit: str | None, text: Any, name: str) -> float:
+    """The scale of the written unit (0.01 for %, else 1) once it is allowed for ``unit``."""
+    if written is None or unit is None:
+        return 0.01 if written == "%" else 1.0
+    allowed = UNIT_SPELLINGS.get(unit, ())
+    if written not in allowed:
+        kind = _UNIT_OF.get(written, written)
+        expected = _UNIT_NAMES.get(unit, f"{unit} (write the number without a unit)")
+        raise DesignError(f"{_what(name)} {_quote(text)} is given in {kind}, but {name} takes {expected}; "
+                          f"write e.g. '4.7k'" + (f" or '4.7 k{unit}'" if unit in _UNIT_NAMES and unit not in ("", "%")
+                                                  else ""))
+    return 0.01 if written == "%" else 1.0
+
+
+def parse_value(text: Any, unit: str | None = None, *, name: str = "value") -> float:
     """Read a component value written in engineering notation.
 
     Accepts plain numbers, SI prefixes, IEC 60062 RKM codes and an optional unit (grammar in the
@@ -137,11 +169,19 @@ def parse_value(text: Any) -> float:
     ----------
     text : str or float
         The value as typed, e.g. ``"4k7"``, ``"100 nF"``, ``"20 kHz"``, ``4700``.
+    unit : str, optional
+        The unit of the quantity being read (``"Ω"``, ``"F"``, ``"V"``, ``"Hz"``, ``"H"``, ``"A"``,
+        ``"W"``, ``"s"``, ``"°C"``, ``"%"`` or ``""`` for a fraction). A unit written in the text must
+        be one of its spellings (``Ω``, ``ohm``, ``ohms``, an RKM ``R`` for ohm), else
+        :class:`DesignError`; ``"50 %"`` reads as 0.5. Any other unit (e.g. ``"K/W"``) takes plain or
+        prefixed numbers only. None (default) accepts any unit and does not check it.
+    name : str
+        Field name used in error messages.
 
     Returns
     -------
     float
-        The value in the SI base unit of whatever unit was written [SI unit].
+        The value in the SI base unit [unit]; a per cent sign divides by 100.
 
     Raises
     ------
@@ -153,43 +193,53 @@ def parse_value(text: Any) -> float:
     Notes
     -----
     No range check is done here (``"-1.5"`` is read as -1.5): ranges belong to the caller, normally
-    through :func:`pwmkit._validate.quantity`.  The unit is accepted but not checked against the
-    caller's quantity, so ``"10 V"`` read for a resistance gives 10.0.
+    through :func:`pwmkit._validate.quantity` and :mod:`pwmkit.ranges`.  Give ``unit`` to refuse a
+    unit slip: ``parse_value("10 kF", "Ω", name="ra")`` raises instead of returning 10000.0.
 
     Examples
     --------
     >>> parse_value("4k7"), parse_value("100 nF"), parse_value("R47"), parse_value("1M"), parse_value("1m")
     (4700.0, 1e-07, 0.47, 1000000.0, 0.001)
+    >>> parse_value("4.7 kohm", "Ω"), parse_value("25 %", "%")
+    (4700.0, 0.25)
 
     References
     ----------
     IEC 60062:2016+A1:2019, *Marking codes for resistors and capacitors*, RKM code.
     """
     if not isinstance(text, str):
-        return _number_in(text, "value")
+        return _number_in(text, name)
     stripped = text.strip()
     if not stripped or len(stripped) > _MAX_TEXT:
-        raise DesignError(f"value {_quote(text)} cannot be read; allowed: {_ALLOWED}")
+        raise DesignError(f"{_what(name)} {_quote(text)} cannot be read; allowed: {_ALLOWED}")
 
     match = _SCIENTIFIC_RE.fullmatch(stripped)
     if match:
+        scale = _check_unit(match["unit"], unit, text, name)
         literal = (match["sign"] or "") + match["num"] + match["exp"]
-        return _finite(float(literal), text)
+        return _finite(float(literal) * scale, text, _what(name))
 
     match = _PREFIXED_RE.fullmatch(stripped)
     if match:
+        scale = _check_unit(match["unit"], unit, text, name)
         exp = _PREFIX_EXP[match["prefix"]] if match["prefix"] else 0
+        if scale != 1.0:
+            exp -= 2
         # Build a decimal literal and let float() round once: "2.2µ" -> float("2.2e-6"), no binary noise.
         literal = f"{match['sign'] or ''}{match['num']}e{exp}"
-        return _finite(float(literal), text)
+        return _finite(float(literal), text, _what(name))
 
     match = _RKM_RE.fullmatch(stripped)
     if match and (match["int"] or match["frac"]):
-        exp = _RKM_EXP[match["letter"]]
+        implied = _RKM_UNIT.get(match["letter"])
+        if implied is not None and match["unit"] is None:
+            _check_unit(UNIT_SPELLINGS[implied][0], unit, text, name)
+        scale = _check_unit(match["unit"], unit, text, name)
+        exp = _RKM_EXP[match["letter"]] + (-2 if scale != 1.0 else 0)
         literal = f"{match['sign'] or ''}{match['int'] or '0'}.{match['frac'] or '0'}e{exp}"
-        return _finite(float(literal), text)
+        return _finite(float(literal), text, _what(name))
 
-    raise DesignError(f"value {_quote(text)} cannot be read; allowed: {_ALLOWED}")
+    raise DesignError(f"{_what(name)} {_quote(text)} cannot be read; allowed: {_ALLOWED}")
 
 
 _FORMAT_PREFIXES = {-15: "f", -12: "p", -9: "n", -6: _MICRO, -3: "m", 0: "", 3: "k", 6: "M", 9: "G", 12: "T"}

@@ -30,3 +30,15 @@ def test_every_lazy_submodule_exists() -> None:
 
     for name in sorted(pwmkit._LAZY):
         importlib.import_module(f"pwmkit.{name}")
+
+
+def test_design_layer_imports_no_schematic_code() -> None:
+    # the presentation layer registers the Design's schematic display (pwmkit._display); the design
+    # layer itself must not reach up into it
+    code = ("import sys, pwmkit.design as d; page = d.demo_designs()['fan']._repr_html_();"
+            "print('pwmkit.schematic' in sys.modules, '<svg' in page)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.split() == ["False", "False"]
+    code = ("import pwmkit.design as d, pwmkit.schematic; print('<svg' in d.demo_designs()['fan']._repr_html_())")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "True"

@@ -1,7 +1,8 @@
 """Design-rule checks: turn an evaluated design into findings with severities.
 
 :func:`run_checks` applies every rule of :mod:`pwmkit.checks.timing_rules` (timer and timing
-network) and :mod:`pwmkit.checks.load_rules` (gate drive, MOSFET, freewheel diode, LEDs, motor) to
+network), :mod:`pwmkit.checks.load_rules` (gate drive, MOSFET, freewheel diode, LEDs, motor) and
+:mod:`pwmkit.checks.bench_rules` (bench readings of the built driver against the design) to
 a design and its evaluation, and returns a :class:`Findings` collection. Rules that do not apply
 to a design (motor rules for an LED load, pot rules for a fixed network, requirement rules without
 a requirement) give no finding. Every rule documents its thresholds and their origin in its
@@ -15,6 +16,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from .bench_rules import RULES as _BENCH_RULES
 from .findings import ORIGIN_KINDS, SEVERITIES, Finding, Findings, severity_style
 from .load_rules import RULES as _LOAD_RULES
 from .timing_rules import RULES as _TIMING_RULES
@@ -23,7 +25,7 @@ __all__ = ["Finding", "Findings", "CHECK_IDS", "RULES", "SEVERITIES", "ORIGIN_KI
            "severity_style"]
 
 #: Every rule, keyed by id, in the order they run.
-RULES = {**_TIMING_RULES, **_LOAD_RULES}
+RULES = {**_TIMING_RULES, **_LOAD_RULES, **_BENCH_RULES}
 #: All rule ids.
 CHECK_IDS: tuple[str, ...] = tuple(RULES)
 

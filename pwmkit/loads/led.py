@@ -23,7 +23,7 @@ from typing import Any, Literal
 import numpy as np
 
 from .._validate import is_scalar_input, quantity, scalar
-from ..errors import DesignError
+from ..errors import DesignError, ModelLimit
 
 __all__ = ["LED_EYE_SAFETY_NOTE", "RESISTOR_HOT_NOTE", "RESISTOR_RATINGS", "TYPICAL_VF", "VfRange", "LedString",
            "LedDrive", "led_resistor", "led_current", "led_drive", "resistor_derating",
@@ -106,7 +106,7 @@ def _string_inputs(vsupply: Any, vf: Any, n_series: Any, v_switch: Any) -> tuple
         k = int(np.argmax((head <= 0.0).ravel()))
         vs_k, n_k, v_k, sw_k, h_k = (float(a.ravel()[k]) for a in (b_vs, b_n, b_v, b_sw, head))
         sw = f" − {_v(sw_k)} V" if sw_k else ""
-        raise DesignError(
+        raise ModelLimit(
             f"{_v(vs_k)} V supply − {int(n_k)} × {_v(v_k)} V{sw} = {_v(h_k)} V leaves nothing for the "
             f"resistor; allowed: vsupply > n_series·vf + v_switch (fewer LEDs per string or a higher supply)")
     return vs, v, n, vsw, head
@@ -465,7 +465,7 @@ def led_drive(vsupply: Any, vf: Any, n_series: Any, n_parallel: Any = 1, *, r_se
     if i_set is not None:
         r = _ratio(head, i_set, "r_series") - r_sw
         if r <= 0.0:
-            raise DesignError(
+            raise ModelLimit(
                 f"i_peak {_v(i_set * 1e3)} mA cannot be reached: headroom {_v(head)} V over the shared switch "
                 f"resistance {p} × {_v(rds)} Ω allows at most {_v(head / r_sw * 1e3)} mA per string")
     try:

@@ -40,7 +40,7 @@ from typing import Any
 import numpy as np
 
 from .._validate import is_scalar_input, quantity
-from ..errors import DesignError
+from ..errors import DesignError, ModelLimit
 from ..parts.mosfets import MosfetFamily, get_mosfet
 from .thermal import junction_temperature, result_html, result_repr
 
@@ -189,11 +189,11 @@ def gate_drive(
     r_snk = r_src if r_sink is None else float(quantity(r_sink, "r_sink", unit="Ω", minimum=0.0))
     v_lo = float(quantity(v_drive_low, "v_drive_low", unit="V", minimum=-30.0))
     if v_hi <= fet.v_plateau:
-        raise DesignError(f"v_drive_high: {v_hi:g} V does not exceed the Miller plateau {fet.v_plateau:g} V of "
+        raise ModelLimit(f"v_drive_high: {v_hi:g} V does not exceed the Miller plateau {fet.v_plateau:g} V of "
                           f"{fet.name}; the MOSFET never fully turns on (it would sit in its linear region and "
                           "overheat) — use a logic-level part or a higher drive voltage")
     if v_lo >= fet.v_th:
-        raise DesignError(f"v_drive_low: {v_lo:g} V is not below the threshold {fet.v_th:g} V of {fet.name}; "
+        raise ModelLimit(f"v_drive_low: {v_lo:g} V is not below the threshold {fet.v_th:g} V of {fet.name}; "
                           "the MOSFET never turns off")
     r_on = r_src + r_g + fet.r_g_int
     r_off = r_snk + r_g + fet.r_g_int

@@ -45,6 +45,7 @@ import numpy as np
 
 from .._validate import is_scalar_input, quantity, scalar
 from ..errors import DesignError
+from ..ranges import checked
 
 __all__ = [
     "BOLTZMANN",
@@ -287,7 +288,7 @@ class DiodeFamily:
         >>> round(SMALL_SIGNAL_SILICON.vf(0.1), 4)
         0.8946
         """
-        cur = quantity(i, "i", unit="A", minimum=0.0)
+        cur = checked(i, "i", "current")
         temp = quantity(t_c, "t_c", unit="°C", minimum=-200.0, maximum=400.0)
         i_s = np.asarray(self.saturation_current(temp))
         vt = BOLTZMANN * (np.asarray(temp) + KELVIN_OFFSET) / ELEMENTARY_CHARGE
@@ -393,7 +394,7 @@ class DiodeFamily:
         float or numpy.ndarray
             Temperature coefficient [V/K] (negative for normal diodes).
         """
-        cur = quantity(i, "i", unit="A", minimum=0.0)
+        cur = checked(i, "i", "current")
         temp = quantity(t_c, "t_c", unit="°C", minimum=-200.0, maximum=400.0)
         v_j = np.asarray(self.vf(cur, temp)) - np.asarray(cur) * self.r_s
         t_k = np.asarray(temp) + KELVIN_OFFSET

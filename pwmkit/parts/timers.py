@@ -30,6 +30,7 @@ from typing import Any, Literal
 import numpy as np
 
 from .._validate import quantity
+from ..ranges import checked
 
 __all__ = ["TimerFamily", "BIPOLAR", "CMOS", "TIMERS", "get_timer"]
 
@@ -147,13 +148,13 @@ class TimerFamily:
             Current drawn from the output [A].
         """
         vcc = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
-        i_source = quantity(i_source, "i_source", unit="A", minimum=0.0)
+        i_source = checked(i_source, "i_source", "current")
         v = np.maximum(vcc - self.v_out_high_drop - i_source * self.output_source_resistance(vcc), 0.0)
         return float(v) if np.ndim(v) == 0 else v
 
     def output_low(self, i_sink: Any = 0.0) -> Any:
         """Output-low level while sinking ``i_sink`` [V]."""
-        i_sink = quantity(i_sink, "i_sink", unit="A", minimum=0.0)
+        i_sink = checked(i_sink, "i_sink", "current")
         v = i_sink * self.r_out_low
         return float(v) if np.ndim(v) == 0 else v
 

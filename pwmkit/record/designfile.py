@@ -38,6 +38,7 @@ import dataclasses
 import difflib
 import math
 import os
+import re
 import sys
 from collections.abc import Mapping
 from pathlib import Path
@@ -67,7 +68,7 @@ _SECTIONS: dict[str, Any] = {
 }
 _LOADS: dict[str, Any] = {"led": LedLoad, "motor": MotorLoad}
 _SECTION_ORDER = ("design", "requirements", "timing", "load", "switch", "freewheel")
-_TOP_KEYS = ("format", "version", *_SECTION_ORDER)
+_TOP_KEYS = ("format", "version", *_SECTION_ORDER, "bench")
 
 #: Numeric fields that accept ``"none"`` although their default is a value.
 _NULLABLE_EXTRA = {"timing.cv_bypass"}
@@ -125,7 +126,7 @@ def _fields_of(cls: Any, section: str, skip: tuple[str, ...] = ()) -> dict[str, 
     return out
 
 
-_SUBOBJECTS = ("timing", "load", "switch", "freewheel", "requirements")
+_SUBOBJECTS = ("timing", "load", "switch", "freewheel", "requirements", "bench")
 
 
 def section_fields(section: str, kind: str | None = None) -> dict[str, _Field]:
@@ -249,6 +250,10 @@ def design_to_toml(design: Design) -> str:
         _emit_section(lines, "load", design.load, section_fields("load", design.load.kind))
     _emit_section(lines, "switch", design.switch, section_fields("switch"))
     _emit_section(lines, "freewheel", design.freewheel, section_fields("freewheel"))
+    if design.bench:  # [[bench]] readings of the built driver (pwmkit.bench.readings)
+        from ..bench.readings import readings_to_toml
+
+        lines += ["# bench readings of the built driver", readings_to_toml(design.bench)]
     return "\n".join(lines)
 
 
@@ -334,12 +339,15 @@ def _convert(path: str, fd: _Field, value: Any) -> Any:
         try:
             if path.endswith("_tolerance"):
                 return parse_tolerance(value)
-            if UNITS.get(path) == "%" and value.strip().endswith("%"):
-                return parse_value(value.strip()[:-1]) / 100.0
-            return parse_value(value)
+            unit = UNITS.get(path)
+            number = parse_value(value, unit if unit is not None else "", name=path)
         except DesignError as exc:
             extra = '; "none" leaves it out' if fd.nullable else ""
-            raise DesignError(f"{path}: {exc}{extra}") from None
+            msg = str(exc)
+            raise DesignError(f"{msg if msg.startswith(path) else f'{path}: {msg}'}{extra}") from None
+        if UNITS.get(path) == "%" and value.strip().endswith("%") and not 0.0 <= number <= 1.0:
+            raise DesignError(f"{path}: {value.strip()!r} is out of range; allowed 0 % … 100 %")
+        return number
     try:
         number = float(value)
     except OverflowError:
@@ -359,6 +367,8 @@ def _field_message(msg: str, section: str) -> str:
         if msg.startswith(prefix):
             return repl + msg[len(prefix):]
     head = msg.split(":", 1)[0]
+    if head.startswith("bench"):  # bench readings carry their own path, e.g. bench[2].conditions.vcc
+        return msg
     if "." in head and head.split(".", 1)[0] in _SECTION_ORDER:
         return msg
     return f"{section}: {msg}"
@@ -417,6 +427,9 @@ def _from_data(data: dict[str, Any]) -> Design:
     if fmt != FORMAT:
         raise DesignError(f"format: {_short(fmt)} is not a pwmkit design file; expected {FORMAT!r}")
     version = data.get("version")
+    if version is None:
+        raise DesignError(f"version: missing; a pwmkit design file starts with format = \"{FORMAT}\" and "
+                          f"version = {VERSION}")
     if isinstance(version, bool) or not isinstance(version, int):
         raise DesignError(f"version: expected the whole number {VERSION}, got {_kind_name(version)} "
                           f"{_short(version)}")
@@ -447,12 +460,38 @@ def _from_data(data: dict[str, Any]) -> Design:
         if key not in fields:
             raise _unknown("design", key, fields)
         kwargs[key] = _convert(f"design.{key}", fields[key], value)
+    if "bench" in data:
+        from ..bench.readings import readings_from_data
+
+        kwargs["bench"] = readings_from_data(data["bench"])
     try:
         design = Design(**kwargs, **sections)
     except DesignError as exc:
         raise DesignError(_field_message(str(exc), "design")) from None
     _check_names(design)
+    if design.bench:
+        from ..bench.readings import check_conditions
+
+        check_conditions(design)
     return design
+
+
+_SECTION_RE = re.compile(r"^\s*\[\s*([A-Za-z0-9_.-]+)\s*\]")
+_LONG_NUMBER_RE = re.compile(r"^\s*([A-Za-z0-9_-]+)\s*=\s*[+-]?([0-9_]{300,})")
+
+
+def _long_number_field(text: str) -> tuple[str, int] | None:
+    """(dotted field, digits) of the first number too long for Python's int reader, or None."""
+    section = ""
+    for line in text.splitlines():
+        m = _SECTION_RE.match(line)
+        if m:
+            section = m.group(1)
+            continue
+        m = _LONG_NUMBER_RE.match(line)
+        if m:
+            return (f"{section}.{m.group(1)}" if section else m.group(1)), len(m.group(2).replace("_", ""))
+    return None
 
 
 def design_from_toml(text: str, *, source: str = "<string>") -> Design:
@@ -486,6 +525,10 @@ def design_from_toml(text: str, *, source: str = "<string>") -> Design:
     except RecursionError:
         raise DesignError(f"{source}: arrays or tables nested too deeply; a design file is flat") from None
     except ValueError as exc:  # e.g. integers with thousands of digits
+        where = _long_number_field(text)
+        if where is not None:
+            raise DesignError(f"{source}: {where[0]}: a number of {where[1]} digits is not allowed; give a value "
+                              "in SI units such as 4700 or \"4k7\"") from None
         raise DesignError(f"{source}: not a readable design file ({exc})") from None
     try:
         return _from_data(data)

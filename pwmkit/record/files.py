@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import os
 import re
+import stat
 import tempfile
 from pathlib import Path
 
@@ -32,19 +33,39 @@ def read_limited(path: str | os.PathLike[str], limit: int = MAX_DESIGN_BYTES, *,
     Raises
     ------
     DesignError
-        Missing file, a folder, unreadable file, or a file over the limit (the message names the
-        file and the limit).
+        Missing file, a folder, a named pipe, socket or device (refused at once, without waiting
+        for a writer), unreadable file, or a file over the limit (the message names the file and
+        the limit).
     """
     p = Path(path)
     try:
-        with open(p, "rb") as fh:
-            data = fh.read(limit + 1)
+        # O_NONBLOCK: opening a FIFO (named pipe) or a device must not wait for a writer; the file
+        # kind is then checked on the open descriptor, so a swap after the check cannot slip through
+        fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_NOCTTY", 0))
     except FileNotFoundError:
         raise DesignError(f"{p}: no such {what}") from None
     except IsADirectoryError:
         raise DesignError(f"{p}: is a folder, not a {what}") from None
     except OSError as exc:
         raise DesignError(f"{p}: cannot read the {what} ({exc.strerror or exc})") from None
+    try:
+        mode = os.fstat(fd).st_mode
+        if stat.S_ISDIR(mode):
+            raise DesignError(f"{p}: is a folder, not a {what}")
+        if not stat.S_ISREG(mode):
+            kind = "a named pipe (FIFO)" if stat.S_ISFIFO(mode) else "a socket" if stat.S_ISSOCK(mode) else \
+                "a device" if stat.S_ISCHR(mode) or stat.S_ISBLK(mode) else "not a regular file"
+            raise DesignError(f"{p}: is {kind}, not a regular file; give the path of a {what} on disk")
+        if hasattr(os, "set_blocking"):
+            os.set_blocking(fd, True)
+        with os.fdopen(fd, "rb") as fh:
+            fd = -1
+            data = fh.read(limit + 1)
+    except OSError as exc:
+        raise DesignError(f"{p}: cannot read the {what} ({exc.strerror or exc})") from None
+    finally:
+        if fd >= 0:
+            os.close(fd)
     if len(data) > limit:
         raise DesignError(f"{p}: the {what} is larger than {limit // 1024} KiB; a pwmkit {what} is a few "
                           "kilobytes — is this the right file?")
@@ -89,7 +110,10 @@ def atomic_write(path: str | os.PathLike[str], data: str | bytes, *, force: bool
     if not p.parent.is_dir():
         raise DesignError(f"{p}: the folder {p.parent} does not exist")
     payload = data.encode("utf-8") if isinstance(data, str) else bytes(data)
-    fd, tmp_name = tempfile.mkstemp(dir=p.parent, prefix=f".{p.name}.", suffix=".tmp")
+    try:
+        fd, tmp_name = tempfile.mkstemp(dir=p.parent, prefix=f".{p.name}.", suffix=".tmp")
+    except OSError as exc:  # the message names the destination, not the hidden temporary file
+        raise DesignError(f"{p}: cannot write into the folder {p.parent} ({exc.strerror or exc})") from None
     try:
         with os.fdopen(fd, "wb") as fh:
             _write_all(fh, payload)

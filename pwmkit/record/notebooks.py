@@ -1,9 +1,9 @@
 """Running notebooks headless, exporting them to HTML, and the ``pwmkit lab`` working folder.
 
-Where the notebooks come from: a wheel carries them as package data in ``pwmkit/notebooks/``;
-a source checkout (``pip install -e .``) has them in the repository's ``notebooks/`` folder next
-to the package. :func:`notebook_source_dir` looks in that order and uses the first folder that
-holds ``.ipynb`` files.
+Where the notebooks come from: a source checkout (``pip install -e .``) has them in the
+repository's ``notebooks/`` folder next to the package; a wheel installs them (and the example
+design files) as data files into ``<prefix>/share/pwmkit/``. :func:`data_source_dir` looks in
+that order and uses the first folder that holds matching files.
 
 ``pwmkit lab`` copies them into a working folder (default ``./pwmkit-notebooks``) and never
 replaces a copy the user has edited unless asked to (``force``).
@@ -24,7 +24,8 @@ from typing import Any
 from ..errors import DesignError
 from .files import atomic_write, read_limited
 
-__all__ = ["notebook_source_dir", "copy_notebooks", "example_source_dir", "copy_examples", "find_design_file", "CopyAction", "read_notebook", "execute_notebook",
+__all__ = ["notebook_source_dir", "data_source_dir", "root_flags", "copy_notebooks", "example_source_dir", "copy_examples",
+           "find_design_file", "CopyAction", "read_notebook", "execute_notebook",
            "notebook_html", "display_available", "lab_command", "MAIN_NOTEBOOK"]
 
 #: The notebook ``pwmkit lab`` opens (and runs with ``--headless``).
@@ -32,20 +33,34 @@ MAIN_NOTEBOOK = "greenhouse_design.ipynb"
 _MAX_NOTEBOOK_BYTES = 256 << 20
 
 
-def notebook_source_dir() -> Path:
-    """The folder holding pwmkit's notebooks (package data first, then the source checkout).
+def data_source_dir(kind: str = "notebooks", pattern: str = "*.ipynb") -> Path:
+    """The folder holding pwmkit's ``notebooks`` or ``examples`` (source checkout first, then the wheel's).
+
+    A source checkout (``pip install -e .``) keeps them beside the package (``<checkout>/notebooks``);
+    a wheel installs them as data files into ``<prefix>/share/pwmkit/<kind>``. The first folder
+    holding files that match ``pattern`` wins.
 
     Raises
     ------
     DesignError
-        No folder with notebooks was found (a broken installation).
+        No such folder was found (a broken installation).
     """
     package = Path(__file__).resolve().parent.parent
-    for candidate in (package / "notebooks", package.parent / "notebooks"):
-        if candidate.is_dir() and any(candidate.glob("*.ipynb")):
+    candidates = [package / kind]
+    if (package.parent / "pyproject.toml").is_file():  # a source checkout
+        candidates.append(package.parent / kind)
+    for prefix in dict.fromkeys((sys.prefix, sys.base_prefix, os.path.join(os.path.expanduser("~"), ".local"))):
+        candidates.append(Path(prefix) / "share" / "pwmkit" / kind)
+    for candidate in candidates:
+        if candidate.is_dir() and any(candidate.glob(pattern)):
             return candidate
-    raise DesignError(f"notebooks: none found in {package / 'notebooks'} or {package.parent / 'notebooks'}; "
-                      "reinstall pwmkit (pip install -e '.[lab]' from a source checkout)")
+    raise DesignError(f"{kind}: none found in {', '.join(str(c) for c in candidates)}; reinstall pwmkit "
+                      "(pip install -e '.[lab]' from a source checkout, or the wheel)")
+
+
+def notebook_source_dir() -> Path:
+    """The folder holding pwmkit's notebooks; see :func:`data_source_dir`."""
+    return data_source_dir("notebooks", "*.ipynb")
 
 
 @dataclass(frozen=True)
@@ -104,12 +119,11 @@ def copy_notebooks(dest: str | os.PathLike[str], *, force: bool = False,
 
 
 def example_source_dir() -> Path | None:
-    """The folder holding pwmkit's example design files (package data first, then the source checkout)."""
-    package = Path(__file__).resolve().parent.parent
-    for candidate in (package / "examples", package.parent / "examples"):
-        if candidate.is_dir() and any(candidate.glob("*.toml")):
-            return candidate
-    return None
+    """The folder holding pwmkit's example design files (see :func:`data_source_dir`), or None."""
+    try:
+        return data_source_dir("examples", "*.toml")
+    except DesignError:
+        return None
 
 
 def copy_examples(dest: str | os.PathLike[str], *, force: bool = False,
@@ -175,9 +189,24 @@ def read_notebook(path: str | os.PathLike[str]) -> Any:
     p = Path(path)
     data = read_limited(p, limit=_MAX_NOTEBOOK_BYTES, what="notebook")
     try:
-        return nbformat.reads(data.decode("utf-8"), as_version=4)
+        text = data.decode("utf-8")
     except UnicodeDecodeError:
         raise DesignError(f"{p}: not UTF-8 text; a notebook is a JSON text file") from None
+    import json
+
+    try:
+        doc = json.loads(text)
+    except ValueError as exc:
+        raise DesignError(f"{p}: not a readable notebook (not JSON: {_first_line(exc)})") from None
+    except RecursionError:
+        raise DesignError(f"{p}: not a readable notebook (JSON nested too deeply)") from None
+    if not isinstance(doc, dict) or not isinstance(doc.get("cells"), list):
+        got = {list: "a JSON list", str: "a JSON string", dict: "a JSON object without a 'cells' list"}.get(
+            type(doc), f"a JSON {type(doc).__name__}")
+        raise DesignError(f"{p}: not a notebook; expected a JSON object with 'cells' and 'metadata' (nbformat 4), "
+                          f"got {got}")
+    try:
+        return nbformat.reads(text, as_version=4)
     except Exception as exc:  # nbformat raises several kinds (JSON, validation, version)
         raise DesignError(f"{p}: not a readable notebook ({type(exc).__name__}: {_first_line(exc)})") from None
 
@@ -243,12 +272,14 @@ def _cell_error(nb: Any) -> str | None:
 
 
 def notebook_html(nb: Any) -> str:
-    """The notebook as one HTML page (nbconvert's HTML exporter, widget state kept)."""
-    from nbconvert import HTMLExporter
+    """The notebook as one self-contained HTML page that needs no network.
 
-    exporter = HTMLExporter(template_name="lab")
-    body, _ = exporter.from_notebook_node(nb)
-    return body
+    Plots, a static snapshot of the widgets and the formulas (as MathML) are in the page itself;
+    see :func:`pwmkit.record.offline_html.offline_notebook_html`.
+    """
+    from .offline_html import offline_notebook_html
+
+    return offline_notebook_html(nb)
 
 
 def display_available() -> bool:
@@ -263,9 +294,18 @@ def display_available() -> bool:
     return bool(env.get("DISPLAY") or env.get("WAYLAND_DISPLAY") or env.get("BROWSER"))
 
 
+def root_flags() -> list[str]:
+    """Extra JupyterLab flags for the current user: ``--allow-root`` when the effective user is root.
+
+    JupyterLab refuses to start as root without it (common in containers).
+    """
+    geteuid = getattr(os, "geteuid", None)
+    return ["--allow-root"] if geteuid is not None and geteuid() == 0 else []
+
+
 def lab_command(folder: Path, notebook: str = MAIN_NOTEBOOK, extra: list[str] | None = None) -> list[str]:
     """The command that starts JupyterLab on ``notebook`` in ``folder`` (local address only)."""
     exe = shutil.which("jupyter-lab")
     head = [exe] if exe else [sys.executable, "-m", "jupyterlab"]
-    return [*head, "--ServerApp.ip=127.0.0.1", f"--ServerApp.root_dir={folder}", *(extra or []),
+    return [*head, "--ServerApp.ip=127.0.0.1", f"--ServerApp.root_dir={folder}", *root_flags(), *(extra or []),
             str(folder / notebook)]

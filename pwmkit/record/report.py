@@ -3,7 +3,8 @@
 :func:`report_html` gathers what a reviewer needs on one page: the requirements, the circuit in
 words and as a schematic, the parts with their preferred-value series, the timing (exact against
 the textbook 0.693 estimate), interactive plots (capacitor waveform with thresholds and the load
-current, pot travel, Monte Carlo histograms, MOSFET losses), the spread summary, the design-rule findings, the timing
+current, pot travel, Monte Carlo histograms, MOSFET losses), the spread summary, the bench readings
+against the design ("as designed vs as built", when the design holds readings), the design-rule findings, the timing
 formulas with the design's numbers worked in, and the safety cautions.
 
 The file needs nothing from the network: BokehJS is embedded inline (only the parts the plots
@@ -294,6 +295,19 @@ def _cautions(evaluation: Any) -> str:
     return "".join(f"<div class='caution'><b>{_e(c.title)}.</b> {_e(c.text)}</div>" for c in evaluation.cautions)
 
 
+def _as_built(design: Design, evaluation: Any, divs: dict[str, str]) -> str:
+    """Bench readings against the design (:mod:`pwmkit.record.asbuilt`) and their plots."""
+    from .asbuilt import as_built_html
+    from .report_plots import as_built_reconciliation
+
+    try:
+        rec = as_built_reconciliation(evaluation)
+    except DesignError as exc:
+        return f"<p class='note'>The bench readings could not be compared with the design: {_e(exc)}</p>"
+    return as_built_html(design, rec, evaluation) + (
+        f"<div class='plot'>{divs['as-built']}</div>" if "as-built" in divs else "")
+
+
 def _plots(evaluation: Any) -> tuple[str, dict[str, str]]:
     """(script and BokehJS to put in <head>, div per figure key)."""
     from bokeh.embed import components
@@ -405,6 +419,7 @@ def report_html(design: Design, evaluation: Any = None, *, source_name: str | No
          + (f"<h3>MOSFET losses</h3><div class='plot'>{divs['losses']}</div>" if "losses" in divs else "")),
         ("spread", "Spread over tolerances, temperature and supply", _spread(evaluation)
          + (f"<div class='plot'>{divs['spread']}</div>" if "spread" in divs else "")),
+        *([("as-built", "As designed vs as built", _as_built(design, evaluation, divs))] if design.bench else []),
         ("findings", "Design-rule checks", _findings(evaluation)),
         ("formulas", "Timing formulas with this design's numbers", _formulas(design)),
         ("cautions", "Cautions", _cautions(evaluation)),

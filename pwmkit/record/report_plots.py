@@ -9,11 +9,28 @@ from __future__ import annotations
 
 from typing import Any
 
-__all__ = ["report_figures"]
+from ..errors import DesignError
+
+__all__ = ["report_figures", "as_built_reconciliation"]
+
+
+def as_built_reconciliation(evaluation: Any) -> Any:
+    """:func:`pwmkit.bench.reconcile_design` of the evaluated design at its Monte Carlo size and seed.
+
+    None without bench readings with a frequency or duty.
+    """
+    from ..bench import reconcile_design
+
+    design = evaluation.design
+    if not design.bench:
+        return None
+    sp = evaluation.spread
+    n, seed = (max(int(sp.n), 1000), int(sp.seed or 0)) if sp is not None else (20_000, 1)
+    return reconcile_design(design, n=n, seed=seed)
 
 
 def report_figures(evaluation: Any) -> dict[str, Any]:
-    """The report's bokeh layouts, keyed ``"waveform"``, ``"pot"``, ``"spread"``, ``"losses"``.
+    """The report's bokeh layouts, keyed ``"waveform"``, ``"pot"``, ``"spread"``, ``"losses"``, ``"as-built"``.
 
     Keys are absent when they do not apply (no pot, quick mode without spread, no MOSFET losses).
     """
@@ -41,4 +58,14 @@ def report_figures(evaluation: Any) -> dict[str, Any]:
         losses = LossBarsPlot(width=520, height=220)
         losses.update(evaluation.mosfet)
         out["losses"] = losses.layout
+    try:
+        rec = as_built_reconciliation(evaluation)
+    except DesignError:  # the report's as-built section says why
+        rec = None
+    if rec is not None:  # bench readings on the pot travel and the spread at their conditions
+        from ..plots.bench import AsBuiltPlot
+
+        built = AsBuiltPlot(width=380, height=230, pot=design.timing.topology == "pot")
+        built.update(rec, evaluation.pot_travel)
+        out["as-built"] = built.layout
     return out

@@ -27,8 +27,9 @@ class RerunOutcome:
     Attributes
     ----------
     path : the notebook
-    status : "ok" (no drift), "drift", "error" (could not run or read), "unrecorded" (nothing was
-        recorded to compare with) or "updated" (``update=True`` wrote the fresh run back)
+    status : "ok" (no drift), "drift", "error" (could not run), "unreadable" (missing, not a
+        notebook: bad input), "unrecorded" (nothing was recorded to compare with) or "updated"
+        (``update=True`` wrote the fresh run back)
     message : one line for people
     drifts : every difference found
     recorded, fresh : design name → key → value
@@ -45,8 +46,13 @@ class RerunOutcome:
 
     @property
     def failed(self) -> bool:
-        """True when the command line should exit with status 1."""
-        return self.status in ("drift", "error", "unrecorded")
+        """True when the command line should exit with a non-zero status (see :attr:`exit_status`)."""
+        return self.status in ("drift", "error", "unrecorded", "unreadable")
+
+    @property
+    def exit_status(self) -> int:
+        """0 fine, 1 drift / a failed run / nothing recorded, 2 bad input (missing or unreadable notebook)."""
+        return 2 if self.status == "unreadable" else 1 if self.failed else 0
 
     @property
     def n_compared(self) -> int:
@@ -85,7 +91,7 @@ def rerun_notebook(path: str | os.PathLike[str], *, rtol: float = 1e-6, atol: fl
         recorded = payloads_in_notebook(nb)
     except DesignError as exc:
         msg = str(exc)
-        return RerunOutcome(p, "error", msg if msg.startswith(str(p)) else f"{p}: {msg}")
+        return RerunOutcome(p, "unreadable", msg if msg.startswith(str(p)) else f"{p}: {msg}")
     if not recorded and not update:
         return RerunOutcome(p, "unrecorded",
                             f"{p}: no recorded results to compare with — the notebook must call "

@@ -18,9 +18,25 @@ words as well.
 
 from __future__ import annotations
 
+from .._display import register_html
 from .adapter import for_design
 from .draw import draw
 from .parts import PartLabel, Schematic
 from .style import DEFAULT_STYLE, SchematicStyle
+
+
+def _design_schematic_html(design: object) -> str:
+    """The design's annotated schematic for its rich display (a one-line note when it cannot be drawn)."""
+    import html
+
+    from ..errors import DesignError
+
+    try:
+        return for_design(design).svg
+    except (DesignError, ImportError) as exc:
+        return f"<p><em>schematic not drawn: {html.escape(str(exc))}</em></p>"
+
+
+register_html("design", "schematic", _design_schematic_html)
 
 __all__ = ["draw", "for_design", "Schematic", "PartLabel", "SchematicStyle", "DEFAULT_STYLE"]

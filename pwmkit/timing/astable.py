@@ -1,8 +1,9 @@
 """Numeric evaluation of the exact astable timing.
 
 :func:`astable` evaluates the sympy-derived closed forms
-(:mod:`pwmkit.timing.symbolic`) through a cached :func:`sympy.lambdify`
-function, broadcasting numpy arrays. Before evaluating, it checks that the
+(:mod:`pwmkit.timing.symbolic`), written out as numpy code in the generated
+module :mod:`pwmkit.timing._derived` (no sympy at run time; a test derives
+them again and compares), broadcasting numpy arrays. Before evaluating, it checks that the
 design oscillates: the charge asymptote must lie above the upper threshold
 and the discharge asymptote below the lower one; otherwise a
 :class:`~pwmkit.errors.DesignError` says why, in volts.
@@ -11,14 +12,15 @@ and the discharge asymptote below the lower one; otherwise a
 from __future__ import annotations
 
 import functools
+import math
 from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
-from .._validate import quantity
-from ..errors import DesignError
+from ..errors import DesignError, ModelLimit
 from ..parts.timers import TimerFamily, get_timer
+from ..ranges import checked
 from .paths import TOPOLOGIES, paths
 
 __all__ = ["AstableResult", "astable", "astable_ideal", "default_vd", "control_voltage_from_divider"]
@@ -28,6 +30,10 @@ __all__ = ["AstableResult", "astable", "astable_ideal", "default_vd", "control_v
 class AstableResult:
     """Timing of a 555-type astable.
 
+    Array results are read-only: inputs that were scalars stay broadcast views (no copies), and
+    ``period``, ``frequency`` and ``duty`` are computed from ``t_high`` and ``t_low`` on first
+    access, so a large array call holds little more than its two half-periods.
+
     Attributes
     ----------
     topology : str
@@ -35,9 +41,9 @@ class AstableResult:
         Timer family name.
     t_high : output-high time (capacitor charging) [s]
     t_low : output-low time (capacitor discharging) [s]
-    period : t_high + t_low [s]
-    frequency : 1 / period [Hz]
-    duty : t_high / period, fraction 0–1 [1]
+    period : t_high + t_low [s] (computed on first access)
+    frequency : 1 / period [Hz] (computed on first access)
+    duty : t_high / period, fraction 0–1 [1] (computed on first access)
     v_upper, v_lower : comparator thresholds [V]
     v_charge, v_discharge : asymptotes of the charge and discharge [V]
     r_charge, r_discharge : resistance of the charge and discharge paths [Ω]
@@ -49,9 +55,6 @@ class AstableResult:
     timer: str
     t_high: Any
     t_low: Any
-    period: Any
-    frequency: Any
-    duty: Any
     v_upper: Any
     v_lower: Any
     v_charge: Any
@@ -60,6 +63,29 @@ class AstableResult:
     r_discharge: Any
     c: Any
     vcc: Any
+
+    @functools.cached_property
+    def period(self) -> Any:
+        """t_high + t_low [s]."""
+        return _derived_value(self.t_high + self.t_low)
+
+    @functools.cached_property
+    def frequency(self) -> Any:
+        """1 / period [Hz]."""
+        with np.errstate(all="ignore"):
+            return _derived_value(1.0 / self.period)
+
+    @functools.cached_property
+    def duty(self) -> Any:
+        """t_high / period, fraction 0–1 [1]."""
+        with np.errstate(all="ignore"):
+            return _derived_value(self.t_high / self.period)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Every quantity by name, the derived ones included (arrays stay arrays)."""
+        names = ("topology", "timer", "t_high", "t_low", "period", "frequency", "duty", "v_upper", "v_lower",
+                 "v_charge", "v_discharge", "r_charge", "r_discharge", "c", "vcc")
+        return {name: getattr(self, name) for name in names}
 
     def __repr__(self) -> str:
         if np.ndim(self.frequency) == 0:
@@ -89,6 +115,27 @@ class AstableResult:
         body = "".join(f"<tr><th style='text-align:left'>{k}</th><td>{v}</td></tr>" for k, v in rows)
         return (f"<table class='pwmkit-result'><caption>astable timing — {self.topology}, {self.timer} timer"
                 f"</caption>{body}</table>")
+
+
+def _derived_value(x: Any) -> Any:
+    """A float for 0-d results, else the array made read-only."""
+    if np.ndim(x) == 0:
+        return float(x)
+    x.flags.writeable = False
+    return x
+
+
+def _readonly(x: Any, shape: tuple[int, ...]) -> Any:
+    """``x`` as a float (scalar call) or a read-only float array of ``shape`` (a view, never a copy)."""
+    a = np.asarray(x, dtype=float)
+    if not shape:
+        return float(a)
+    if a.shape != shape:
+        return np.broadcast_to(a, shape)  # read-only view
+    if a.flags.writeable:
+        a = a.view()
+        a.flags.writeable = False
+    return a
 
 
 @functools.lru_cache(maxsize=8)
@@ -138,8 +185,8 @@ def control_voltage_from_divider(vcc: Any, r_ext: Any, timer: str | TimerFamily 
     if fam.r_cv_divider <= 0:
         raise DesignError(f"timer: the {fam.description} has no known internal divider value; "
                           "give the control voltage directly (vctl)")
-    vcc = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
-    r_ext = quantity(r_ext, "r_ext", unit="Ω", minimum=0.0, min_inclusive=False)
+    vcc = checked(vcc, "vcc")
+    r_ext = checked(r_ext, "r_ext")
     r = fam.r_cv_divider
     lower = 2 * r * r_ext / (2 * r + r_ext)
     v = vcc * lower / (r + lower)
@@ -157,41 +204,56 @@ def _inputs(topology: str, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any, wiper: 
         raise DesignError(f"topology: {topology!r} is not known; allowed: {', '.join(TOPOLOGIES)}")
     fam = get_timer(timer)
     q: dict[str, Any] = {"timer": fam}
-    q["ra"] = quantity(ra, "ra", unit="Ω", minimum=0.0, min_inclusive=False)
-    q["rb"] = quantity(rb, "rb", unit="Ω", minimum=0.0)
-    q["c"] = quantity(c, "c", unit="F", minimum=0.0, min_inclusive=False)
-    q["vcc"] = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
+    q["ra"] = checked(ra, "ra")
+    q["rb"] = checked(rb, "rb")
+    q["c"] = checked(c, "c")
+    q["vcc"] = checked(vcc, "vcc")
     if topology == "pot":
         if pot is None or wiper is None:
             raise DesignError("pot, wiper: the 'pot' topology needs both the potentiometer value (pot, Ω) "
                               "and the wiper position (wiper, 0–1)")
-        q["pot"] = quantity(pot, "pot", unit="Ω", minimum=0.0, min_inclusive=False)
-        q["wiper"] = quantity(wiper, "wiper", minimum=0.0, maximum=1.0)
+        q["pot"] = checked(pot, "pot")
+        q["wiper"] = checked(wiper, "wiper")
     else:
         if pot is not None or wiper is not None:
             raise DesignError(f"pot, wiper: only the 'pot' topology uses a potentiometer; got pot={pot!r}, "
                               f"wiper={wiper!r} with topology {topology!r}")
         q["pot"], q["wiper"] = 0.0, 0.0
     if topology == "classic":
-        q["vd"] = 0.0 if vd is None else quantity(vd, "vd", unit="V", minimum=0.0)
+        q["vd"] = 0.0 if vd is None else checked(vd, "vd")
     else:
-        q["vd"] = default_vd() if vd is None else quantity(vd, "vd", unit="V", minimum=0.0)
-    q["vsat"] = fam.vsat if vsat is None else quantity(vsat, "vsat", unit="V", minimum=0.0)
-    q["r_on"] = fam.r_discharge_on if r_on is None else quantity(r_on, "r_on", unit="Ω", minimum=0.0)
+        q["vd"] = default_vd() if vd is None else checked(vd, "vd")
+    q["vsat"] = fam.vsat if vsat is None else checked(vsat, "vsat")
+    q["r_on"] = fam.r_discharge_on if r_on is None else checked(r_on, "r_on")
     if vctl is None:
         q["vctl"] = 2.0 * q["vcc"] / 3.0
     else:
-        q["vctl"] = quantity(vctl, "vctl", unit="V", minimum=0.0, min_inclusive=False)
+        q["vctl"] = checked(vctl, "vctl")
+    _check_shapes(q)
     return q
 
 
-def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
-    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+def _check_shapes(q: dict[str, Any]) -> None:
+    """Array inputs must broadcast together; else a DesignError naming the fields and their shapes."""
+    shaped = {k: np.shape(v) for k, v in q.items() if k != "timer" and np.ndim(v) > 0}
+    if len(shaped) < 2:
+        return
+    try:
+        np.broadcast_shapes(*shaped.values())
+    except ValueError:
+        listed = ", ".join(f"{k} {s}" for k, s in shaped.items())
+        raise DesignError(f"{', '.join(shaped)}: array shapes {listed} do not broadcast together; give arrays "
+                          "of one shape (or shapes numpy can broadcast, such as (n,) with (m, 1)) or scalars") from None
+
+
+def _check_oscillates(topology: str, q: dict[str, Any], p: Any, v_lower: Any = None) -> None:
+    v_upper = q["vctl"]
+    v_lower = q["vctl"] / 2.0 if v_lower is None else v_lower
     if not np.all(p.v_charge > v_upper):
         bad = np.logical_not(p.v_charge > v_upper)
         vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
         what = f"supply {vcc:.4g} V" if topology == "classic" else f"supply {vcc:.4g} V minus diode drop {vd:.4g} V"
-        raise DesignError(
+        raise ModelLimit(
             f"vcc: {what} = {vch:.4g} V cannot reach the upper threshold {vu:.4g} V; the capacitor stalls "
             f"below it and the output latches high. Raise vcc or lower vctl"
             + ("" if topology == "classic" else " (or use a lower-drop diode)")
@@ -199,14 +261,14 @@ def _check_oscillates(topology: str, q: dict[str, Any], p: Any) -> None:
     if not np.all(p.v_discharge < v_lower):
         bad = np.logical_not(p.v_discharge < v_lower)
         vdis, vl = _first_bad(bad, p.v_discharge, v_lower)
-        raise DesignError(
+        raise ModelLimit(
             f"vcc: the discharge path heads for {vdis:.4g} V (switch saturation/on-resistance"
             + ("" if topology in ("classic", "bypass") else " plus diode drop")
             + f"), which cannot fall to the lower threshold {vl:.4g} V; the output latches low. "
             "Raise vcc or vctl, or lower the discharge-path drops"
         )
-    if not np.all(p.r_discharge > 0):
-        raise DesignError(
+    if not np.min(p.r_discharge) > 0:
+        raise ModelLimit(
             "rb: the discharge path resistance is 0 Ω (rb = 0 with the wiper at the discharge end and an "
             "ideal discharge switch): the discharge pin would short the capacitor. Add an end resistor rb > 0"
         )
@@ -288,46 +350,38 @@ def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = Non
     .. [2] Data sheets of the bipolar and CMOS 555-type timer families,
        astable operation (typical published datasheet values, generic).
     """
-    from .symbolic import numeric_function
-
     q = _inputs(topology, ra, rb, c, vcc, pot, wiper, vd, vsat, r_on, vctl, timer)
+    return _astable_core(topology, q)
+
+
+def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
+    """:func:`astable` on values already read and checked by :func:`_inputs` (no re-validation)."""
+    from ._derived import crossing_time
+
     p = paths(topology, ra=q["ra"], rb=q["rb"], pot=q["pot"], wiper=q["wiper"], vcc=q["vcc"], vd=q["vd"],
               vsat=q["vsat"], r_on=q["r_on"])
-    _check_oscillates(topology, q, p)
-    r_on0 = np.ndim(q["r_on"]) == 0 and q["r_on"] == 0
-    vsat0 = np.ndim(q["vsat"]) == 0 and q["vsat"] == 0
-    fn = numeric_function(topology, "saturation" if r_on0 else "resistance" if vsat0 else "general")
+    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+    _check_oscillates(topology, q, p, v_lower)
+    # each half-period is the sympy-solved crossing law on the topology's path: the closed forms of
+    # symbolic.expressions() are exactly this composition (tests compare them)
     with np.errstate(all="ignore"):
-        t_high, t_low = fn(q["ra"], q["rb"], q["pot"], q["wiper"], q["c"], q["vcc"], q["vd"], q["vsat"],
-                           q["r_on"], q["vctl"])
-        t_high = np.asarray(t_high, dtype=float)
-        t_low = np.asarray(t_low, dtype=float)
-        shape = np.broadcast(t_high, t_low, q["c"], q["ra"], q["vcc"]).shape
-        if t_high.shape != shape:
-            t_high = np.array(np.broadcast_to(t_high, shape))
-        if t_low.shape != shape:
-            t_low = np.array(np.broadcast_to(t_low, shape))
-        period = t_high + t_low
-        frequency = 1.0 / period
-        duty = t_high / period
-    # t_high, t_low >= 0 by construction, so a finite period well above zero makes frequency and
-    # duty finite too (one reduction instead of three)
-    if not (np.isfinite(period).all() and (np.size(period) == 0 or np.min(period) > 1e-300)):
-        raise DesignError("timing: the design gives a non-finite period (component values too extreme for "
+        (t_high,) = crossing_time(p.r_charge, q["c"], p.v_charge, v_lower, v_upper)
+        (t_low,) = crossing_time(p.r_discharge, q["c"], p.v_discharge, v_upper, v_lower)
+    shape = np.broadcast_shapes(*(np.shape(v) for k, v in q.items() if k != "timer"))
+    # t_high, t_low >= 0 by construction, so finite half-periods whose smallest sum is well above zero
+    # make period, frequency and duty finite too (four reductions, no temporary arrays)
+    lows = float(np.min(t_high)) + float(np.min(t_low)) if np.size(t_high) and np.size(t_low) else 1.0
+    highs = float(np.max(t_high)) + float(np.max(t_low)) if np.size(t_high) and np.size(t_low) else 1.0
+    if not (math.isfinite(highs) and lows > 1e-300):
+        raise ModelLimit("timing: the design gives a non-finite period (component values too extreme for "
                           "double precision); check the orders of magnitude of ra, rb, pot and c")
     fam = q["timer"]
-
-    def out(x: Any) -> Any:
-        x = np.asarray(x, dtype=float)
-        if x.ndim == 0 and not shape:
-            return float(x)
-        return x if x.shape == shape and x.flags.writeable else np.array(np.broadcast_to(x, shape))
-
     return AstableResult(
-        topology=topology, timer=fam.name, t_high=out(t_high), t_low=out(t_low), period=out(period),
-        frequency=out(frequency), duty=out(duty), v_upper=out(q["vctl"]), v_lower=out(q["vctl"] / 2.0),
-        v_charge=out(p.v_charge), v_discharge=out(p.v_discharge), r_charge=out(p.r_charge),
-        r_discharge=out(p.r_discharge), c=out(q["c"]), vcc=out(q["vcc"]),
+        topology=topology, timer=fam.name, t_high=_readonly(t_high, shape), t_low=_readonly(t_low, shape),
+        v_upper=_readonly(q["vctl"], shape), v_lower=_readonly(v_lower, shape),
+        v_charge=_readonly(p.v_charge, shape), v_discharge=_readonly(p.v_discharge, shape),
+        r_charge=_readonly(p.r_charge, shape), r_discharge=_readonly(p.r_discharge, shape),
+        c=_readonly(q["c"], shape), vcc=_readonly(q["vcc"], shape),
     )
 
 

@@ -64,6 +64,11 @@ class Paths:
     v_discharge: Any
 
 
+def _plus(a: Any, b: Any) -> Any:
+    """``a + b``, but ``a`` itself when ``b`` is the float 0.0 of an ideal switch (no array copy)."""
+    return a if isinstance(b, float) and b == 0.0 else a + b
+
+
 def paths(topology: str, *, ra: Any, rb: Any, pot: Any, wiper: Any, vcc: Any, vd: Any, vsat: Any,
           r_on: Any) -> Paths:
     """Charge/discharge resistance and asymptote of a topology (symbolic or numeric).
@@ -85,13 +90,13 @@ def paths(topology: str, *, ra: Any, rb: Any, pot: Any, wiper: Any, vcc: Any, vd
         v_dis = (vcc * r_on + vsat * ra) / (ra + r_on)
         r_dis = ra * r_on / (ra + r_on)
     if topology == "classic":
-        return Paths(ra + rb, vcc, rb + r_dis, v_dis)
+        return Paths(ra + rb, vcc, _plus(rb, r_dis), v_dis)
     if topology == "bypass":
-        return Paths(ra, vcc - vd, rb + r_dis, v_dis)
+        return Paths(ra, vcc - vd, _plus(rb, r_dis), v_dis)
     if topology == "steered":
-        return Paths(ra, vcc - vd, rb + r_dis, v_dis + vd)
+        return Paths(ra, vcc - vd, _plus(rb, r_dis), v_dis + vd)
     if topology == "pot":
-        return Paths(ra + wiper * pot, vcc - vd, rb + (1 - wiper) * pot + r_dis, v_dis + vd)
+        return Paths(ra + wiper * pot, vcc - vd, _plus(rb + (1 - wiper) * pot, r_dis), v_dis + vd)
     from ..errors import DesignError
 
     raise DesignError(f"topology: {topology!r} is not known; allowed: {', '.join(TOPOLOGIES)}")

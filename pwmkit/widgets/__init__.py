@@ -22,7 +22,8 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`RequirementsPanel`, :class:`PartsPanel` — requirements and criterion; dielectric, tolerances, series;
 - :class:`CandidatesPanel` — ranked part sets for the requirements (non-blocking search), "use this set";
 - :class:`ConditionsPanel` — frequency and duty against supply and ambient;
-- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes".
+- :class:`FileBar` — Open, Save, Save as, Revert of the design file, "unsaved changes";
+- :class:`AsBuiltPanel` — bench readings against the design ("As built" tab for designs with readings).
 
 ``dashboard("my-driver.toml")`` opens a design file; Save writes the edits back to it.
 
@@ -37,6 +38,7 @@ Importing this package imports ipywidgets; bokeh is imported when a plot panel i
 
 from __future__ import annotations
 
+from .. import schematic as _schematic  # noqa: F401 - registers the schematic in a Design's rich display
 from .._lazy import lazy_exports
 
 _EXPORTS = {
@@ -55,6 +57,7 @@ _EXPORTS = {
     "FormulasPanel": "formulas",
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
+    "AsBuiltPanel": "bench",
     "RequirementsPanel": "requirements",
     "PartsPanel": "requirements",
     "CandidatesPanel": "candidates",

@@ -112,6 +112,7 @@ class Dashboard(w.VBox):
     timing : TimingPanel; waveforms : WaveformPanel; pot_travel : PotTravelPanel;
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
+    as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
     tabs : ipywidgets.Tab
     """
 
@@ -131,6 +132,11 @@ class Dashboard(w.VBox):
         self.findings = FindingsPanel(s)
         self.formulas = FormulasPanel(s, debounce=debounce)
         self.schematic = self._schematic_panel(s, debounce)
+        self.as_built = None
+        if s.design.bench:  # bench readings: the "as designed vs as built" tab (pwmkit.widgets.bench)
+            from .bench import AsBuiltPanel
+
+            self.as_built = AsBuiltPanel(s, debounce=max(debounce, 0.6))
         pages: list[tuple[str, w.Widget]] = [
             ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
             ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
@@ -140,6 +146,8 @@ class Dashboard(w.VBox):
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
         pages = pages + own
         self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
+        if self.as_built is not None:
+            pages.append(("As built", self.as_built))
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
         self.timing.layout.width = "440px"
         self.timing.layout.min_width = "440px"
@@ -233,7 +241,7 @@ class Dashboard(w.VBox):
 
     def flush(self) -> None:
         """Run debounced work (schematic, formulas, spread re-run) now."""
-        for panel in (self.schematic, self.formulas, self.spread, self.downloads):
+        for panel in (self.schematic, self.formulas, self.spread, self.as_built, self.downloads):
             if panel is not None:
                 panel.flush()
 

@@ -1,7 +1,7 @@
 """A value entry: engineering-notation text field + slider (log or linear) + optional E-series snap.
 
 The text field reads ``"4k7"``, ``"100n"``, ``"2.2 nF"`` … through :func:`pwmkit.values.parse_value`
-and applies on Enter or when it loses focus (``continuous_update=False``). The slider applies
+(a unit other than the field's own, such as ``"10 kF"`` for a resistor, is refused) and applies on Enter or when it loses focus (``continuous_update=False``). The slider applies
 while it is dragged; the ipywidgets front end keeps at most one update in flight and sends the
 latest position when the kernel is free, so a fast drag never queues stale work.
 """
@@ -233,12 +233,17 @@ class ValueEntry(w.VBox):
         try:
             text = str(change["new"]).strip()
             try:
-                value = parse_value(text)
-            except DesignError:
+                value = parse_value(text, self.unit, name=self.name)  # "10 kF" for Ω: refused
+            except DesignError as exc:
                 from ..glossary import field_examples
 
-                self.mark_invalid(f"{self.field_name}: {text!r} is not a value. "
-                                  f"Type for example {field_examples(self.unit)}.")
+                reason = str(exc)
+                if "is given in" in reason:  # a unit for another quantity: say which, in this field's words
+                    why = reason.split(": ", 1)[-1].split(";")[0]
+                    self.mark_invalid(f"{self.field_name}: {why}. Type for example {field_examples(self.unit)}.")
+                else:
+                    self.mark_invalid(f"{self.field_name}: {text!r} is not a value. "
+                                      f"Type for example {field_examples(self.unit)}.")
                 return
             self.submit(value)
         except Exception:  # never raise into the widget machinery

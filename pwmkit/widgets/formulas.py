@@ -70,7 +70,10 @@ class FormulasPanel(Panel):
         self.quantity.observe(lambda _c: self._refresh_now(), names="value")
         self.format.observe(lambda _c: self._refresh_now(), names="value")
         self.session.subscribe(self.follow)
-        self._refresh_now()
+        # The first sheet needs the sympy derivation (about a second in a new process): inside a
+        # kernel it is scheduled like every later refresh, so the dashboard shows at once.
+        self.math.value = "<em>deriving the formulas…</em>"
+        self._debounced()
 
     def refresh(self, evaluation: Any) -> None:
         """Schedule a refresh (debounced)."""
@@ -90,8 +93,17 @@ class FormulasPanel(Panel):
         self.clear_message()
 
     def flush(self) -> None:
-        """Refresh now if a refresh is pending."""
-        self._debounced.flush()
+        """Refresh now if a refresh is pending, else send the drawn sheet again.
+
+        Sending again matters for a notebook run headless: a sheet drawn by the scheduler between
+        two cells is not recorded in the saved widget state, one sent from a cell is.
+        """
+        if self._debounced.pending:
+            self._debounced.flush()
+        else:
+            self.math.send_state()
+            self.text.send_state()
+            self.copy.send_state()
 
 
 #: The click handler of a copy button: the clipboard API, with the older select-and-copy as fallback.

@@ -46,12 +46,16 @@ def _read(text: str, field: str, *, percent: bool = False, optional: bool = Fals
         if optional:
             return None
         raise DesignError(f"{field}: a value is required")
+    from ..record.designfile import UNITS
+
+    unit = "" if percent else UNITS.get(field, "")  # the field's own unit: "10 kF" for a frequency is refused
     try:
         if t.endswith("%"):
-            return float(parse_value(t[:-1].strip())) / 100.0
-        v = float(parse_value(t))
+            return float(parse_value(t[:-1].strip(), "", name=field)) / 100.0
+        v = float(parse_value(t, unit, name=field))
     except DesignError as exc:
-        raise DesignError(f"{field}: {exc}") from None
+        msg = str(exc)
+        raise DesignError(msg if msg.startswith(field) else f"{field}: {msg}") from None
     return v / 100.0 if percent and v > 1.0 else v
 
 

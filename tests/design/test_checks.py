@@ -61,9 +61,10 @@ def test_rules_quiet_on_demo_designs(name: str, rule_id: str, request: pytest.Fi
 
 def test_demo_rule_coverage() -> None:
     # every rule applies to at least one demo design except the ones that need a feature the demos
-    # do not use (none today: both demos are pot-steered, one LED and one motor load)
+    # do not use (both demos are pot-steered, one LED and one motor load; they hold no bench readings,
+    # so bench.match is covered by tests/bench/test_bench_views.py)
     applied = {f.id for d in DEMOS.values() for f in ev_of(d, True).findings}
-    assert applied == set(CHECK_IDS)
+    assert applied == set(CHECK_IDS) - {"bench.match"}
 
 
 # ------------------------------------------------------------------------------------------------

@@ -227,7 +227,9 @@ def test_formula_sheets_in_every_format(fmt: str) -> None:
 
 
 def test_hostile_design_names_stay_inside_comments(tmp_path: Path) -> None:
-    evil = 'x"""\nimport os\nos.system("echo pwned") # */ int evil = 1; /*\\'
+    with pytest.raises(DesignError, match="design.name: contains the control character U\\+000A"):
+        demo_designs()["fan"].replace(name='x"""\nimport os')  # a line break in a name is refused
+    evil = 'x""" import os; os.system("echo pwned") # */ int evil = 1; /*\\'
     design = demo_designs()["fan"].replace(name=evil)
     namespace: dict[str, Any] = {"__name__": "pwmkit_sheet"}
     exec(compile(formula_sheet(design, "python"), "<sheet>", "exec"), namespace)  # generated code, tests only

@@ -187,10 +187,19 @@ def test_rerun_reports_a_failing_cell(tmp_path: Path, capsys: pytest.CaptureFixt
 
 
 def test_rerun_of_missing_or_broken_files(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
-    assert main(["rerun", str(tmp_path / "none.ipynb")]) == 1
-    assert "no such notebook" in capsys.readouterr().err
+    # bad input is exit status 2, as documented (cli module docstring), and the message is printed once,
+    # on standard error
+    assert main(["rerun", str(tmp_path / "none.ipynb")]) == 2
+    cap = capsys.readouterr()
+    assert "no such notebook" in cap.err and "no such notebook" not in cap.out
     bad = tmp_path / "bad.ipynb"
     bad.write_text("{not json", encoding="utf-8")
-    assert main(["rerun", str(bad)]) == 1
+    assert main(["rerun", str(bad)]) == 2
     assert "not a readable notebook" in capsys.readouterr().err
+    listed = tmp_path / "list.ipynb"
+    listed.write_text("[1, 2]", encoding="utf-8")
+    assert main(["rerun", str(listed)]) == 2
+    err = capsys.readouterr().err
+    assert "not a notebook; expected a JSON object with 'cells'" in err and "got a JSON list" in err
+    assert "AttributeError" not in err
     assert main(["rerun", "--rtol", "-1", str(bad)]) == 2

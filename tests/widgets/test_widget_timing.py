@@ -89,7 +89,8 @@ def test_text_entry_accepts_engineering_notation(pair):
     [
         # the message names the field with its label and unit, and offers examples valid for it
         ("c", "10q", ["C (timing) [F]", "'10q'", "is not a value", "2n2, 100 nF"]),
-        ("ra", "-4k7", ["R_A (charge) [Ω]", "-4700", "> 0", "4k7, 10 kΩ"]),
+        ("ra", "-4k7", ["R_A (charge) [Ω]", "-4700", "1 Ω ≤ the value ≤ 1 GΩ", "4k7, 10 kΩ"]),
+        ("ra", "10 kF", ["R_A (charge) [Ω]", "'10 kF'", "F", "takes Ω", "4k7, 10 kΩ"]),
         ("vcc", "1.5", ["supply V_CC [V]", "cannot reach the upper threshold"]),
         ("pot", "", ["pot (end to end) [Ω]", "4k7"]),
     ],
