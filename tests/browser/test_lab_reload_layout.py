@@ -167,8 +167,10 @@ def test_dashboard_survives_a_page_reload(lab, page, artifacts):
         page.reload()
         page.wait_for_selector(".pwmkit-dashboard .pwmkit-tabbar", timeout=90_000)
         dash = page.locator(".pwmkit-dashboard").first
-        dash.locator(".pwmkit-plot-waveforms").first.scroll_into_view_if_needed()
-        page.wait_for_function(f"() => ({READ_SOURCE})(['pwmkit-waveform', 't']) !== null", timeout=60_000)
+        waves = dash.locator(".pwmkit-plot-waveforms").first
+        waves.wait_for(state="attached", timeout=120_000)  # a loaded machine restores the views slowly
+        waves.scroll_into_view_if_needed(timeout=60_000)
+        page.wait_for_function(f"() => ({READ_SOURCE})(['pwmkit-waveform', 't']) !== null", timeout=90_000)
         # the waveform drawn after the reload is the current design's
         for column in ("t", "v_cap", "v_out"):
             got = np.asarray(_read(page, "pwmkit-waveform", column), dtype=float)
