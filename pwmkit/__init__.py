@@ -44,6 +44,10 @@ _LAZY = {
     "schematic",
     "widgets",
     "cli",
+    "two_timer_design",
+    "synthesis_two_timer",
+    "evaluate_two_timer",
+    "evaluate_heater",
 }
 
 

@@ -240,7 +240,13 @@ def feasible(model: Model, v: Mapping[str, Any], m: int) -> tuple[np.ndarray, di
     with np.errstate(all="ignore"):
         p = paths(model.topology, ra=v["ra"], rb=v["rb"], pot=v["pot"], wiper=v["wiper"], vcc=v["vcc"],
                   vd=v["vd"], vsat=v["vsat"], r_on=v["r_on"])
-        high = ~(b(p.v_charge) > b(v["vctl"]))
+        v_charge = p.v_charge
+        if model.topology == "bypass":  # the diode across rb stops conducting: the charge then heads for vcc
+            from .timing.astable import _bypass_turn_off
+
+            v_off = _bypass_turn_off({"ra": v["ra"], "rb": v["rb"], "vcc": v["vcc"], "vd": v["vd"]})
+            v_charge = np.where(b(v_off) < b(v["vctl"]), b(v["vcc"]), b(p.v_charge))
+        high = ~(b(v_charge) > b(v["vctl"]))
         low = ~(b(p.v_discharge) < b(v["vctl"]) / 2.0)
         short = ~(b(p.r_discharge) > 0)
     from .ranges import RANGES

@@ -28,7 +28,7 @@ _BRIGHT_LED_W = 0.2  # electrical power per LED above which eye safety is stress
 
 #: Every caution id, in display order.
 CAUTION_IDS: tuple[str, ...] = ("design-aid", "bench", "codes", "hot-parts", "inductive-kick", "eye-safety",
-                                "high-voltage")
+                                "high-voltage", "heater")
 
 
 @dataclass(frozen=True)
@@ -89,6 +89,9 @@ def _hot_parts(design: Any, ev: Any) -> Caution:
                          f"far more when stalled ({float(ev.motor_stall.i_mean):.3g} A mean)"
                          if ev.motor_stall is not None else
                          f"the motor winding dissipates {1e3 * float(ev.motor_speed.p_copper):.0f} mW")
+        hp = getattr(ev, "heater", None)
+        if hp is not None:
+            parts.append(f"the heater element reaches about {_fmt_c(float(hp.hot.t_element_c))}")
         where = f" at {t_amb:g} °C ambient" if parts else ""
         computed = ("Computed" + where + ": " + "; ".join(parts) + ". ") if parts else ""
     else:
@@ -104,12 +107,30 @@ def _hot_parts(design: Any, ev: Any) -> Caution:
                    "fuse the supply.")
 
 
+def _heater_caution(design: Any, ev: Any) -> Caution:
+    computed = ""
+    hp = None if ev is None else getattr(ev, "heater", None)
+    if hp is not None:
+        computed = (f" Here the element runs at about {_fmt_c(float(hp.hot.t_element_c))} at "
+                    f"{design.t_ambient_max_c:g} °C ambient and reaches about {_fmt_c(hp.t_fault_c)} at full power "
+                    "if the control fails.")
+    return Caution("heater", "Heaters: hot surfaces and fire",
+                   "A heater is meant to get hot: its surface can burn skin and scorch or ignite what lies on or "
+                   "against it. Do not leave a heater running unattended until it has been proven over days, "
+                   "keep it away from flammable material, and fit a thermal cut-out (or thermal fuse) in series "
+                   "with the element that opens independently of the PWM control — a shorted MOSFET or a lost "
+                   "thermistor otherwise leaves it at full power. Heaters run from mains (or from a mains "
+                   "supply built for the purpose) need qualified review under the local electrical codes."
+                   + computed)
+
+
 def cautions_for(design: Any, evaluation: Any = None) -> tuple[Caution, ...]:
     """The safety cautions that apply to a design.
 
     Always: the design-aid scope, bench verification, local codes and licensed practice, and hot
-    parts. By load: the inductive kick of a motor (freewheel diode, drain peak voltage) and eye
-    safety for LEDs. Above safety extra-low voltage (60 V DC, common practice): work by a qualified
+    parts. By load: the inductive kick of a motor (freewheel diode, drain peak voltage), eye
+    safety for LEDs, and for heaters hot surfaces, fire risk when unattended, thermal cut-outs and
+    qualified review of mains heaters. Above safety extra-low voltage (60 V DC, common practice): work by a qualified
     person. With an evaluation the texts carry the computed temperatures and voltages.
 
     Parameters
@@ -174,6 +195,8 @@ def cautions_for(design: Any, evaluation: Any = None) -> tuple[Caution, ...]:
                            "special care with blue, violet, UV and infrared parts (the last two look dim or "
                            "invisible while still harmful). Photobiological safety of lamps is covered by "
                            "IEC 62471 and the LED maker's risk-group rating (common practice)." + strong))
+    if design.load is not None and design.load.kind == "heater":
+        out.append(_heater_caution(design, ev))
     if v_max > SAFETY_EXTRA_LOW_VOLTAGE_DC:
         out.append(Caution("high-voltage", "Above safety extra-low voltage",
                            f"The supply reaches {v_max:.3g} V, above the {SAFETY_EXTRA_LOW_VOLTAGE_DC:g} V DC "

@@ -8,8 +8,11 @@ Subcommands:
     evaluate design files and print the design-rule findings (``--json`` for a JSON document).
 ``rerun NOTEBOOK.ipynb…``
     execute saved design notebooks again and report drift of their recorded key results.
-``export DESIGN.toml --formulas/--bom/--report [FILE]``
-    write the formula sheet, the bill of materials or the HTML report, inside ``--out-dir`` only.
+``export DESIGN.toml --formulas/--bom/--report/--netlist [FILE]``
+    write the formula sheet, the bill of materials, the HTML report or the SPICE netlist, inside
+    ``--out-dir`` only.
+``verify DESIGN.toml…``
+    simulate each design's circuit in ngspice and print model vs circuit (:mod:`pwmkit.cli_verify`).
 ``bench add DESIGN.toml CAPTURE.csv`` / ``bench show DESIGN.toml``
     keep bench readings and scope captures with a design file and compare them with the design
     (:mod:`pwmkit.cli_bench`).
@@ -81,6 +84,11 @@ def _demo(args: argparse.Namespace) -> int:
     print("pwmkit demo — 12 V greenhouse propagator (demo values)\n")
     for name, d in designs.items():
         t = d.timing
+        if t.topology == "two-timer":
+            from .cli_two_timer import demo_lines
+
+            print("\n".join(demo_lines(name, d)))
+            continue
         exact = d.astable()
         kw = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=d.vcc)
         if t.topology == "pot":
@@ -216,8 +224,8 @@ def _export(args: argparse.Namespace) -> int:
     from .record.designfile import load_design
     from .record.files import atomic_write, contained_path, slug
 
-    if args.formulas is None and args.bom is None and args.report is None:
-        raise DesignError("export: nothing to do; give --formulas, --bom and/or --report")
+    if args.formulas is None and args.bom is None and args.report is None and args.netlist is None:
+        raise DesignError("export: nothing to do; give --formulas, --bom, --report and/or --netlist")
     out_dir = Path(args.out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise DesignError(f"--out-dir: {out_dir} is not a folder")
@@ -225,7 +233,7 @@ def _export(args: argparse.Namespace) -> int:
     stem = slug(design.name)
     jobs: list[tuple[str, Path]] = []
     for kind, given, suffix in (("formulas", args.formulas, ".md"), ("bom", args.bom, ".csv"),
-                                ("report", args.report, ".html")):
+                                ("report", args.report, ".html"), ("netlist", args.netlist, ".cir")):
         if given is None:
             continue
         name = given if given else f"{stem}-{kind}{suffix}"
@@ -237,6 +245,8 @@ def _export(args: argparse.Namespace) -> int:
             raise DesignError(f"--bom: {name!r} is not allowed; give a .csv file name")
         if kind == "report" and target.suffix.lower() not in (".html", ".htm"):
             raise DesignError(f"--report: {name!r} is not allowed; give a .html file name")
+        if kind == "netlist" and target.suffix.lower() not in (".cir", ".sp", ".net"):
+            raise DesignError(f"--netlist: {name!r} is not allowed; give a .cir, .sp or .net file name")
         if target.exists() and not args.force:
             raise DesignError(f"{target}: already exists; use --force to replace it")
         jobs.append((kind, target))
@@ -252,6 +262,10 @@ def _export(args: argparse.Namespace) -> int:
             from .record.formulas import formula_sheet
 
             atomic_write(target, formula_sheet(design, FORMULA_SUFFIXES[target.suffix.lower()]), force=args.force)
+        elif kind == "netlist":
+            from .cli_verify import write_netlist
+
+            write_netlist(design, target, force=args.force)
         elif kind == "bom":
             from .record.bom import bom_csv
 
@@ -404,6 +418,7 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--formulas", nargs="?", const="", metavar="FILE", help="formula sheet (.md .tex .txt .py .c)")
     p.add_argument("--bom", nargs="?", const="", metavar="FILE", help="bill of materials (.csv)")
     p.add_argument("--report", nargs="?", const="", metavar="FILE", help="self-contained HTML report (.html)")
+    p.add_argument("--netlist", nargs="?", const="", metavar="FILE", help="SPICE netlist for ngspice (.cir)")
     p.add_argument("--out-dir", default=".", metavar="DIR", help="folder for the outputs (default: .)")
     p.add_argument("--force", action="store_true", help="replace existing output files")
     p.add_argument("--quick", action="store_true", help="skip the tolerance analysis in the report")
@@ -433,6 +448,10 @@ def build_parser() -> argparse.ArgumentParser:
     from .cli_design import add_commands  # find, new
 
     add_commands(sub)
+
+    from .cli_verify import add_verify_parser
+
+    add_verify_parser(sub)
     return parser
 
 

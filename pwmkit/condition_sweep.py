@@ -91,6 +91,10 @@ def condition_sweep(design: Any, *, n: int = 41) -> ConditionSweep:
 
     if isinstance(n, bool) or not isinstance(n, int) or not 2 <= n <= 1001:
         raise DesignError(f"n: {n!r} is not allowed; give a whole number 2 … 1001")
+    if design.timing.topology == "two-timer":  # clock + monostable: its own sweep
+        from .two_timer_design import condition_sweep_two_timer
+
+        return condition_sweep_two_timer(design, n=n)
     topo = design.timing.topology
     kw = timing_kwargs(design)
     common = tolerance_kwargs(design)

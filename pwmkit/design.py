@@ -21,9 +21,12 @@ from typing import Any, Literal
 from ._validate import quantity
 from .errors import DesignError
 
-__all__ = ["CRITERIA", "Requirements", "Timing", "LedLoad", "MotorLoad", "Switch", "Freewheel", "Design", "demo_designs"]
+__all__ = ["CRITERIA", "Requirements", "Timing", "LedLoad", "MotorLoad", "HeaterLoad", "Switch", "Freewheel",
+           "Design", "demo_designs"]
 
-_TOPOLOGIES = ("classic", "bypass", "steered", "pot")
+_TOPOLOGIES = ("classic", "bypass", "steered", "pot", "two-timer")
+#: Timing fields used only by the two-timer topology (astable clock + voltage-controlled monostable).
+_TWO_TIMER_FIELDS = ("r_mono", "c_mono", "vctl_min", "vctl_max", "r_ctl_source")
 _DIELECTRICS = ("c0g", "x7r", "film", "electrolytic")
 #: Acceptance criteria of a requirement (see :class:`Requirements`).
 CRITERIA = ("worst-case", "yield")
@@ -175,6 +178,12 @@ class Timing:
     c_dielectric : timing-capacitor dielectric ("c0g", "x7r", "film", "electrolytic")
     r_series, c_series : preferred-value series the parts come from
     r_tolerance, c_tolerance, pot_tolerance : relative tolerances [1]
+    r_mono, c_mono : "two-timer" only: monostable timing resistor and capacitor [Ω], [F]; the clock
+        is a classic astable on ra, rb, c
+    vctl_min, vctl_max : "two-timer" only: control-voltage range the duty is set over (source
+        open-circuit voltage) [V]; ``vctl`` is the nominal point (default: the middle)
+    r_ctl_source : "two-timer" only: source resistance of the control voltage, working against the
+        internal divider [Ω] (None = stiff source)
     """
 
     topology: str = "steered"
@@ -197,6 +206,11 @@ class Timing:
     r_tolerance: Any = 0.05
     c_tolerance: Any = 0.05
     pot_tolerance: Any = 0.2
+    r_mono: Any = None
+    c_mono: Any = None
+    vctl_min: Any = None
+    vctl_max: Any = None
+    r_ctl_source: Any = None
 
     def __post_init__(self) -> None:
         _choice(self, "topology", _TOPOLOGIES)
@@ -230,6 +244,39 @@ class Timing:
         if not isinstance(self.diode, str) or self.diode not in DIODES:
             raise DesignError(f"timing.diode: {self.diode!r} is not a known diode family; allowed: "
                               f"{', '.join(DIODES)}")
+        self._check_two_timer()
+
+    def _check_two_timer(self) -> None:
+        if self.topology != "two-timer":
+            used = [n for n in _TWO_TIMER_FIELDS if getattr(self, n) is not None]
+            if used:
+                raise DesignError(f"timing.{used[0]}: only the 'two-timer' topology uses {', '.join(used)} "
+                                  f"(topology is {self.topology!r}); remove it")
+            return
+        _num(self, "r_mono", unit="Ω", minimum=0.0, min_inclusive=False)
+        _num(self, "c_mono", unit="F", minimum=0.0, min_inclusive=False)
+        _num(self, "vctl_min", unit="V", minimum=0.0, min_inclusive=False, maximum=100.0)
+        _num(self, "vctl_max", unit="V", minimum=0.0, min_inclusive=False, maximum=100.0)
+        _num(self, "r_ctl_source", unit="Ω", optional=True, minimum=0.0)
+        if not self.vctl_min < self.vctl_max:
+            raise DesignError(f"timing.vctl_min: {self.vctl_min} V is not below vctl_max {self.vctl_max} V; "
+                              "allowed vctl_min < vctl_max")
+        if self.rb is not None and self.rb == 0:
+            raise DesignError("timing.rb: the two-timer clock needs rb > 0 (its output-low time is the trigger "
+                              "pulse)")
+        if self.r_cv is not None:
+            raise DesignError("timing.r_cv: the two-timer topology drives the control pin from vctl "
+                              "(with r_ctl_source); remove r_cv")
+        if self.vctl is not None and not self.vctl_min <= self.vctl <= self.vctl_max:
+            raise DesignError(f"timing.vctl: {self.vctl} V lies outside the control range {self.vctl_min} … "
+                              f"{self.vctl_max} V")
+
+    @property
+    def vctl_nominal(self) -> float:
+        """Two-timer: nominal control (source) voltage, ``vctl`` or the middle of the range [V]."""
+        if self.vctl is not None:
+            return float(self.vctl)
+        return 0.5 * (float(self.vctl_min) + float(self.vctl_max))
 
     def steering_vd(self) -> float:
         """Steering-diode drop used when ``vd`` is not fixed [V].
@@ -245,8 +292,34 @@ class Timing:
 
         return float(get_diode(self.diode).vf(DEFAULT_VD_CURRENT))
 
+    def two_timer_kwargs(self, vcc: float) -> dict[str, Any]:
+        """Circuit keywords of :func:`pwmkit.timing.two_timer_pwm` at supply ``vcc`` (without ``vctl``)."""
+        kw: dict[str, Any] = dict(ra=self.ra, rb=self.rb, c=self.c, r_mono=self.r_mono, c_mono=self.c_mono,
+                                  vcc=vcc, timer=self.timer)
+        if self.vsat is not None:
+            kw["vsat"] = self.vsat
+        return kw
+
+    def control_pin_voltage(self, v_source: Any, vcc: float) -> Any:
+        """Two-timer: control-pin voltage for a control (source) voltage, with ``r_ctl_source`` [V]."""
+        if self.r_ctl_source is None or self.r_ctl_source == 0:
+            return v_source
+        from .timing.monostable import control_pin_drive
+
+        try:
+            return control_pin_drive(v_source, self.r_ctl_source, vcc, self.timer).vctl
+        except DesignError as exc:
+            raise DesignError(f"timing.r_ctl_source: a control source resistance needs the timer's internal divider "
+                              f"value, and for the {self.timer} family it is not known ({exc}); use a stiff source "
+                              "(r_ctl_source none) or the bipolar family") from None
+
     def astable_kwargs(self, vcc: float) -> dict[str, Any]:
-        """Keyword arguments for :func:`pwmkit.timing.astable` at supply ``vcc``."""
+        """Keyword arguments for :func:`pwmkit.timing.astable` at supply ``vcc`` (the clock for "two-timer")."""
+        if self.topology == "two-timer":
+            kw0: dict[str, Any] = dict(ra=self.ra, rb=self.rb, c=self.c, vcc=vcc, timer=self.timer)
+            if self.vsat is not None:
+                kw0["vsat"] = self.vsat
+            return kw0
         kw: dict[str, Any] = dict(ra=self.ra, rb=self.rb, c=self.c, vcc=vcc, timer=self.timer)
         if self.topology == "pot":
             kw.update(pot=self.pot, wiper=self.wiper)
@@ -333,6 +406,66 @@ class MotorLoad:
 
 
 @dataclass(frozen=True)
+class HeaterLoad:
+    """Resistive heater element (heat mat, small element) switched by the low-side MOSFET.
+
+    Attributes
+    ----------
+    r_cold : element resistance at ``t_ref_c`` [Ω]
+    alpha : temperature coefficient of resistance [1/K]
+    t_ref_c : temperature of ``r_cold`` [°C]
+    r_th : thermal resistance element → ambient [K/W]
+    c_th : heat capacity of the element and what it warms [J/K]
+    t_surface_max_c : highest surface temperature allowed for the use [°C]
+    ntc_r25, ntc_beta : thermistor at the element, β model [Ω], [K] (None = no thermistor loop)
+    r_set : set resistor above the thermistor in the divider feeding the control pin [Ω]
+    tau_sensor : thermistor lag behind the element [s]
+    t_cutout_c : opening temperature of a thermal cut-out in series with the element [°C]
+        (None = none fitted)
+    r_tolerance : relative tolerance of the element resistance [1]
+    ntc_tolerance : relative tolerance of the thermistor's R25 [1] (5 %: typical value — check
+        your part's data sheet)
+    """
+
+    r_cold: Any = 8.0
+    alpha: Any = 0.0
+    t_ref_c: Any = 25.0
+    r_th: Any = 2.5
+    c_th: Any = 800.0
+    t_surface_max_c: Any = 40.0
+    ntc_r25: Any = None
+    ntc_beta: Any = 3950.0
+    r_set: Any = None
+    tau_sensor: Any = 60.0
+    t_cutout_c: Any = None
+    r_tolerance: Any = 0.1
+    ntc_tolerance: Any = 0.05
+    kind: Literal["heater"] = field(default="heater", init=False)
+
+    def __post_init__(self) -> None:
+        _num(self, "r_cold", unit="Ω", minimum=0.0, min_inclusive=False)
+        _num(self, "alpha", unit="1/K", minimum=-0.005, maximum=0.02)
+        _num(self, "t_ref_c", unit="°C", minimum=-60.0, maximum=150.0)
+        _num(self, "r_th", unit="K/W", minimum=0.0, min_inclusive=False)
+        _num(self, "c_th", unit="J/K", minimum=0.0, min_inclusive=False)
+        _num(self, "t_surface_max_c", unit="°C", minimum=0.0, maximum=500.0)
+        _num(self, "ntc_r25", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
+        _num(self, "ntc_beta", unit="K", minimum=100.0, maximum=10000.0)
+        _num(self, "r_set", unit="Ω", optional=True, minimum=0.0, min_inclusive=False)
+        _num(self, "tau_sensor", unit="s", minimum=0.0)
+        _num(self, "t_cutout_c", unit="°C", optional=True, minimum=0.0, maximum=500.0)
+        _num(self, "r_tolerance", minimum=0.0, maximum=0.9)
+        _num(self, "ntc_tolerance", minimum=0.0, maximum=0.9)
+        if (self.ntc_r25 is None) != (self.r_set is None):
+            raise DesignError("heater.ntc_r25: the thermistor loop needs both ntc_r25 and r_set (or neither)")
+
+    @property
+    def has_loop(self) -> bool:
+        """True when a thermistor divider feeds the control pin."""
+        return self.ntc_r25 is not None
+
+
+@dataclass(frozen=True)
 class Switch:
     """Low-side MOSFET and its gate resistor."""
 
@@ -385,7 +518,7 @@ class Design:
     name: str = "design"
     vcc: Any = 12.0
     timing: Timing = field(default_factory=Timing)
-    load: LedLoad | MotorLoad | None = None
+    load: LedLoad | MotorLoad | HeaterLoad | None = None
     v_load: Any = None
     switch: Switch = field(default_factory=Switch)
     freewheel: Freewheel = field(default_factory=Freewheel)
@@ -425,8 +558,12 @@ class Design:
                           ("requirements", Requirements)):
             if not isinstance(getattr(self, name), cls):
                 raise DesignError(f"design.{name}: expected a {cls.__name__}, got {type(getattr(self, name)).__name__}")
-        if self.load is not None and not isinstance(self.load, (LedLoad, MotorLoad)):
-            raise DesignError(f"design.load: expected LedLoad, MotorLoad or None, got {type(self.load).__name__}")
+        if self.load is not None and not isinstance(self.load, (LedLoad, MotorLoad, HeaterLoad)):
+            raise DesignError(f"design.load: expected LedLoad, MotorLoad, HeaterLoad or None, got "
+                              f"{type(self.load).__name__}")
+        if isinstance(self.load, HeaterLoad) and self.load.has_loop and self.timing.topology != "two-timer":
+            raise DesignError("heater.ntc_r25: the thermistor loop drives the control pin of the two-timer PWM; "
+                              f"use topology 'two-timer' (topology is {self.timing.topology!r})")
         if not isinstance(self.notes, str):
             raise DesignError("design.notes: expected text")
         if not isinstance(self.revision, str) or len(self.revision) > 2000:
@@ -476,9 +613,21 @@ class Design:
         return self.timing.astable_kwargs(self.vcc)
 
     def astable(self) -> Any:
-        """Timing at the nominal design point (:class:`pwmkit.timing.AstableResult`)."""
+        """Timing at the nominal design point (:class:`pwmkit.timing.AstableResult`).
+
+        For the "two-timer" topology: the PWM output (clock period, monostable pulse) at the
+        operating control voltage (:func:`pwmkit.two_timer_design.operating_point` — the
+        closed-loop point of a thermistor-controlled heater), as an AstableResult with topology
+        "two-timer".
+        """
         from .timing import astable
 
+        if self.timing.topology == "two-timer":
+            from .timing import two_timer_pwm
+            from .two_timer_design import as_astable_result, operating_point
+
+            v_pin = operating_point(self)[0]
+            return as_astable_result(two_timer_pwm(vctl=v_pin, **self.timing.two_timer_kwargs(self.vcc)), self)
         return astable(self.timing.topology, **self.astable_kwargs())
 
     def replace(self, **changes: Any) -> Design:
@@ -513,6 +662,9 @@ class Design:
                 ("timing capacitor", f"{format_value(t.c, 'F')} ({t.c_dielectric})")]
         if t.topology == "pot":
             rows.append(("potentiometer", f"{format_value(t.pot, 'Ω')}, wiper {100 * t.wiper:.0f} %"))
+        if t.topology == "two-timer":
+            rows += [("monostable R / C", f"{format_value(t.r_mono, 'Ω')} / {format_value(t.c_mono, 'F')}"),
+                     ("control range", f"{format_value(t.vctl_min, 'V')} … {format_value(t.vctl_max, 'V')}")]
         if self.load is not None:
             rows.append(("load", self.load.kind))
         body = "".join(f"<tr><th style='text-align:left;padding-right:1em'>{html.escape(k)}</th>"
@@ -533,6 +685,12 @@ def demo_designs() -> dict[str, Design]:
         Ventilation-fan speed control: pot-steered bipolar timer above the
         audible band (every worst-case corner above 20 kHz), small brushed DC fan
         motor with a Schottky freewheel diode.
+    ``"heat-mat"``
+        Seed-tray heat mat (8 Ω, 18 W at 12 V) on a two-timer fixed-frequency
+        PWM near 240 Hz: a bipolar clock triggers a bipolar monostable whose
+        control pin is fed by a 4.7 kΩ NTC thermistor divider at the mat (set
+        resistor 22 kΩ) — a proportional thermostat — and a 45 °C thermal cut-out
+        in series with the mat.
     """
     grow = Design(
         name="grow-bar",
@@ -571,4 +729,21 @@ def demo_designs() -> dict[str, Design]:
         notes="Ventilation-fan speed control for the same propagator (demo values).",
         revision="rev A: first demo build (demo values)",
     )
-    return {"grow-bar": grow, "fan": fan}
+    mat = Design(
+        name="heat-mat",
+        vcc=12.0,
+        vcc_min=11.4,
+        vcc_max=12.6,
+        timing=Timing(topology="two-timer", ra=56e3, rb=2.2e3, c=100e-9, r_mono=22e3, c_mono=100e-9,
+                      vctl_min=3.5, vctl_max=7.5, timer="bipolar", c_dielectric="film"),
+        load=HeaterLoad(r_cold=8.0, alpha=0.0004, r_th=2.5, c_th=800.0, t_surface_max_c=45.0, ntc_r25=4.7e3,
+                        ntc_beta=3950.0, r_set=22e3, tau_sensor=60.0, t_cutout_c=45.0),
+        switch=Switch(mosfet="logic-level-30v", r_gate=100.0),
+        freewheel=Freewheel(diode="schottky-1a"),
+        t_ambient_c=15.0,
+        t_ambient_min_c=5.0,
+        t_ambient_max_c=30.0,
+        requirements=Requirements(frequency=240.0, frequency_tolerance=0.2, duty_min=0.25, duty_max=0.38),
+        notes="Seed-tray heat mat with a thermistor set point for the same propagator (demo values).",
+    )
+    return {"grow-bar": grow, "fan": fan, "heat-mat": mat}

@@ -32,6 +32,7 @@ from typing import Any
 import numpy as np
 
 from .errors import DesignError, ModelLimit
+from .two_timer_design import circuit_words as _circuit_words
 
 __all__ = ["Evaluation", "PotTravel", "TimerOutput", "SupplyCorners", "LedCorners", "Conditions", "evaluate",
            "timing_kwargs", "tolerance_kwargs", "dielectric_of", "TRAVEL_POINTS", "SPEED_ITERATIONS"]
@@ -240,6 +241,9 @@ class Evaluation:
     spread, worst_case, sensitivity : tolerance results or None (quick mode)
     conditions : Conditions
     findings : Findings; cautions : tuple of Caution
+    two_timer : TwoTimerPart or None — two-timer topology: clock, modulator, control range
+        (:mod:`pwmkit.evaluate_two_timer`)
+    heater : HeaterPart or None — heater loads: element, sweep, thermistor loop (:mod:`pwmkit.evaluate_heater`)
     requirement_spread : RequirementSpread or None — the spread judged against the requirements
         (:func:`pwmkit.requirement_spread.requirement_spread`; None in quick mode or without a
         frequency or duty requirement)
@@ -270,6 +274,8 @@ class Evaluation:
     conditions: Conditions
     findings: Any
     cautions: tuple[Any, ...]
+    two_timer: Any = None
+    heater: Any = None
     requirement_spread: Any = None
 
     # -- flat results -----------------------------------------------------------------------------
@@ -355,6 +361,20 @@ class Evaluation:
             for row in self.sensitivity.rows:
                 put(f"sensitivity.frequency.{row.name}", row.s_frequency)
             put("sensitivity.frequency_rel_std", self.sensitivity.frequency_rel_std)
+        if self.two_timer is not None:
+            tt = self.two_timer
+            group("two_timer", tt.pwm, "v_pin=vctl t_trigger t_recovery duty_min duty_max vctl_min vctl_max")
+            group("two_timer", tt.control, "duty_low duty_high linearity_error slope supply_sensitivity "
+                                           "supply_sensitivity_ratiometric")
+        if self.heater is not None:
+            hp = self.heater
+            group("heater", hp.element, "t_element_c t_peak_c p_avg p_on i_on ripple_pp warm_up r_hot")
+            group("heater", hp.hot, "t_element_hot_c=t_element_c")
+            put("heater.t_fault_c", hp.t_fault_c)
+            group("heater", hp.loop, "loop_t_c=t_element_c loop_gain=gain phase_margin_deg crossover")
+            if hp.loop_spread is not None:
+                put("heater.loop_t_min_c", hp.loop_spread[0])
+                put("heater.loop_t_max_c", hp.loop_spread[1])
         if self.design.bench and self.spread is not None:  # bench readings against the design
             from .bench.reconciliation import reconcile_design
 
@@ -683,6 +703,10 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         raise DesignError(f"seed: {seed!r} is not allowed; give a whole number >= 0")
     want_diode_law = bool(spread) if diode_law is None else bool(diode_law)
     t = design.timing
+    if t.topology == "two-timer":
+        from .evaluate_two_timer import evaluate_two_timer
+
+        return evaluate_two_timer(design, spread=spread, n_mc=int(n_mc), seed=int(seed))
     with np.errstate(all="ignore"):
         kw = timing_kwargs(design)
         timing = astable(t.topology, **kw)
@@ -711,6 +735,14 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
             if p["led"] is not None:
                 p["mosfet"] = mosfet_losses(gate, design.load_supply, p["led"].i_peak_total, p["led"].i_rms_total, f,
                                             design.t_ambient_max_c)
+        elif design.load is not None and design.load.kind == "heater":
+            from .evaluate_heater import heater_part
+
+            p["heater"] = heater_part(design, float(timing.duty), f, 0.0 if gate is None else float(gate.rds_on_25))
+            if gate is not None:
+                el = p["heater"].hot
+                p["mosfet"] = mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c,
+                                            i_off=el.i_on)
         elif design.load is not None:
             _motor_part(design, timing, gate, duty_range, p)
             if p["motor"] is not None:
@@ -839,6 +871,10 @@ def _load_rows(ev: Evaluation) -> list[tuple[str, str]]:
         fw = ev.freewheel
         rows.append(("freewheel diode", "thermal runaway" + t_amb if fw.runaway else
                      f"{fv(fw.p_total, 'W', 3)}, junction {fw.tj_c:.3g} °C{t_amb}"))
+    if ev.heater is not None:
+        from .evaluate_heater import heater_rows
+
+        rows += heater_rows(ev)
     if ev.clamp is not None:
         rows.append(("turn-off", f"drain peak {fv(ev.clamp.v_switch_peak, 'V', 3)}, current ends after "
                      f"{fv(ev.clamp.t_zero, 's', 3)}"))
@@ -855,7 +891,7 @@ def _evaluation_html(ev: Evaluation) -> str:
                f"{ev.findings.fail_count} fail, {ev.findings.warn_count} warning(s), {ev.findings.ok_count} ok</span>")
     load = "no load" if d.load is None else f"{d.load.kind} load from {fv(c.load_supply, 'V', 3)}"
     head = (f"<div style='font-size:15px;font-weight:600'>{html.escape(d.name)}</div>"
-            f"<div>{html.escape(d.timing.topology)} astable, {html.escape(d.timing.timer)} timer, supply "
+            f"<div>{html.escape(_circuit_words(d.timing.topology))}, {html.escape(d.timing.timer)} timer, supply "
             f"{html.escape(fv(c.vcc, 'V', 3))} ({html.escape(fv(c.vcc_min, 'V', 3))} … {html.escape(fv(c.vcc_max, 'V', 3))}), "
             f"{html.escape(load)}{' — quick mode, no tolerance analysis' if c.quick else ''}</div><div>{verdict}</div>")
     from .glossary import DIFFERENCE, ESTIMATE, EXACT

@@ -169,6 +169,11 @@ def requirement_spread(design: Any, kw: dict[str, Any], *, n: int = 20_000, seed
     from .evaluate import tolerance_kwargs
     from .tolerance import worst_case
 
+    if design.timing.topology == "two-timer":  # clock + monostable: its own corners and reach
+        from .two_timer_design import operating_point, requirement_spread_two_timer
+
+        v_pin, v_source, _loop = operating_point(design)
+        return requirement_spread_two_timer(design, n=n, seed=seed, v_pin=v_pin if v_source is None else None)
     req = design.requirements
     topo = design.timing.topology
     common = tolerance_kwargs(design)

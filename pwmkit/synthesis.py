@@ -464,6 +464,11 @@ def _search_fixed(topology: str, r_vals: np.ndarray, c_vals: np.ndarray, a: dict
                   r_on=a["r_on"])
         l1, l2 = _ln_factors(p.v_charge, p.v_discharge, a["v_up"], a["v_low"])
         th = p.r_charge * l1          # t_high per farad [s/F]
+        if topology == "bypass":  # where the diode across rb stops conducting, the charge finishes via ra + rb
+            from .timing.astable import _bypass_t_high
+
+            th = _bypass_t_high({"ra": ra, "rb": rb, "c": 1.0, "vcc": a["vcc"], "vd": a["vd"], "vctl": a["v_up"]},
+                                np.broadcast_to(th, np.broadcast(ra, rb).shape))
         tl = p.r_discharge * l2
         duty = th / (th + tl)
         ok = _discharge_pin_ok(a["vcc"], a["vsat"], ra, a["v_up"], p.v_discharge, p.r_discharge,
@@ -597,7 +602,7 @@ def _candidate(topology: str, idx: tuple[int, ...], r_vals: np.ndarray, pots: np
     elif diel == "X7R":
         notes.append("X7R timing capacitor: ±15 % over temperature plus DC-bias and ageing loss")
     if r.frequency > 0.1 * fam.f_max_practical:
-        notes.append("high frequency: the timer's internal delays (≈0.1–0.3 µs bipolar, from memory) "
+        notes.append("high frequency: the timer's internal delays (≈0.1–0.3 µs bipolar, typical value — check your part's data sheet) "
                      "lengthen each half-period; trim on the bench")
     resistors = [ra, rb]
     lines = len(set(resistors)) + 1 + (1 if topology == "pot" else 0) + (1 if topology != "classic" else 0)

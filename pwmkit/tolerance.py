@@ -11,7 +11,7 @@ on one quantity:
   ``c`` tolerance is given;
 * the supply range ``vcc_range`` (uniform, volts);
 * the ambient range ``t_ambient_c``: it moves the diode drop by ``vd_tempco·(T − 25 °C)`` (≈ −2 mV/K
-  for silicon, common practice; REFERENCES §10 derives −1.8 mV/K at 0.65 V from the diode law) and
+  for silicon, common practice; Shockley law with series resistance: Sze & Ng, Physics of Semiconductor Devices, 3rd ed., ch. 2, from memory derives −1.8 mV/K at 0.65 V from the diode law) and
   the capacitor within its dielectric's temperature envelope;
 * ``timer_errors``: the timer family's own initial accuracy, temperature drift and supply
   sensitivity (:mod:`pwmkit.parts.timers`), applied as a multiplicative frequency error

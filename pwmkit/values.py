@@ -365,7 +365,7 @@ def format_rkm(x: Any, kind: Literal["resistor", "capacitor"] = "resistor") -> s
     return f"{whole}{letters[eng]}{frac}"
 
 
-# IEC 60062 tolerance letters, symmetric ones only (from memory, widely used; see REFERENCES §3.4).
+# IEC 60062 tolerance letters, symmetric ones only (from memory, widely used; see IEC 60062:2016, letter and RKM codes).
 TOLERANCE_LETTERS = {
     "L": 0.0001,
     "P": 0.0002,

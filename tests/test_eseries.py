@@ -9,6 +9,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import eseries
 from pwmkit.errors import DesignError
@@ -17,14 +18,14 @@ from pwmkit.errors import DesignError
 # Published tables
 # ---------------------------------------------------------------------------------------------------
 
-# published: IEC 60063:2015 Table 1 (REFERENCES.md §3.1)
+# published: IEC 60063:2015 Table 1 (IEC 60063:2015 Table 1)
 IEC_60063_E3 = (1.0, 2.2, 4.7)
 IEC_60063_E6 = (1.0, 1.5, 2.2, 3.3, 4.7, 6.8)
 IEC_60063_E12 = (1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2)
 IEC_60063_E24 = (1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 5.1,
                  5.6, 6.2, 6.8, 7.5, 8.2, 9.1)  # fmt: skip
 
-# published: IEC 60063:2015 Table 2, E96 (REFERENCES.md §3.2, three-digit values ×100)
+# published: IEC 60063:2015 Table 2, E96 (IEC 60063:2015 Table 2, three-digit values ×100)
 IEC_60063_E96_X100 = """
 100 102 105 107 110 113 115 118 121 124 127 130 133 137 140 143 147 150 154 158 162 165 169 174
 178 182 187 191 196 200 205 210 215 221 226 232 237 243 249 255 261 267 274 280 287 294 301 309
@@ -50,7 +51,7 @@ def test_e96_iec60063_table2():
 
 def test_e24_values_that_break_the_rounding_rule_iec60063():
     # published: IEC 60063:2015 Table 1 has 2.7 … 8.2 where rounding 10**(i/24) to 2 figures gives
-    # 2.6 … 8.3 (REFERENCES.md §3.2, recomputed here in decimal arithmetic)
+    # 2.6 … 8.3 (IEC 60063:2015 Table 2, recomputed here in decimal arithmetic)
     published = {10: 2.7, 11: 3.0, 12: 3.3, 13: 3.6, 14: 3.9, 15: 4.3, 16: 4.7, 22: 8.2}
     rule_gives = {10: 2.6, 11: 2.9, 12: 3.2, 13: 3.5, 14: 3.8, 15: 4.2, 16: 4.6, 22: 8.3}
     e24 = eseries.values("E24")
@@ -69,7 +70,7 @@ def test_e192_exception_iec60063():
     e192 = eseries.values("E192")
     assert e192[185] == 9.20
     assert 9.19 not in e192
-    assert e192[184] == 9.09 and e192[186] == 9.31  # neighbours follow the rule [C]: 10**(184/192)=9.0878…
+    assert e192[184] == 9.09 and e192[186] == 9.31  # neighbours follow the rule (regression pin): 10**(184/192)=9.0878…
 
 
 def test_e48_and_e96_are_subsets_iec60063():
@@ -112,7 +113,7 @@ def test_series_tuple():
 
 
 def test_tolerance_common_practice():
-    # common practice (REFERENCES.md §3.3); E3 is associated with > ±20 % by IEC 60063 — 0.20 used
+    # common practice (tolerance associated with a series, common practice); E3 is associated with > ±20 % by IEC 60063 — 0.20 used
     expected = {"E3": 0.20, "E6": 0.20, "E12": 0.10, "E24": 0.05, "E48": 0.02, "E96": 0.01, "E192": 0.005}
     for name, tol in expected.items():
         assert eseries.tolerance(name) == tol
@@ -127,7 +128,7 @@ def test_tolerance_common_practice():
 
 
 def test_nearest_examples():
-    # IEC 60063 E24 values (published); log-distance choice computed by hand [C]
+    # IEC 60063 E24 values (published); log-distance choice computed by hand (regression pin)
     assert eseries.nearest(4600, "E24") == 4700.0  # ln(4700/4600)=0.0215 < ln(4600/4300)=0.0674
     assert (
         eseries.nearest(9.6e3, "E24") == 10000.0
@@ -135,7 +136,7 @@ def test_nearest_examples():
     assert eseries.nearest(0.95, "E24") == 0.91  # ln(0.95/0.91)=0.0430 < ln(1/0.95)=0.0513
     assert eseries.nearest(0.97, "E24") == 1.0  # ln(1/0.97)=0.0305 < ln(0.97/0.91)=0.0638
     assert eseries.nearest(0.97, "E3") == 1.0
-    assert eseries.nearest(134.95, "E24") == 130.0  # REFERENCES.md §9 LED resistor example [C]: 130 Ω
+    assert eseries.nearest(134.95, "E24") == 130.0  # series-resistor law, common practice LED resistor example (regression pin): 130 Ω
     assert eseries.nearest(1.234e-9, "E96") == 1.24e-9
     assert eseries.nearest("4k6", "E12") == 4700.0
 
@@ -150,7 +151,7 @@ def test_nearest_has_no_binary_noise():
 
 def test_nearest_switches_at_geometric_midpoint():
     # log-scale nearest (IEC 60063 series are geometric): the switch point between 4.7 and 10 (next
-    # decade's 1.0) in E3 is their geometric mean sqrt(47) = 6.856 [C], not the arithmetic mean 7.35
+    # decade's 1.0) in E3 is their geometric mean sqrt(47) = 6.856 (regression pin), not the arithmetic mean 7.35
     mid = math.sqrt(4.7 * 10.0)
     assert eseries.nearest(mid * (1 - 1e-9), "E3") == 4.7
     assert eseries.nearest(mid * (1 + 1e-9), "E3") == 10.0
@@ -186,12 +187,14 @@ def _log_dist(a: float, b: float) -> float:
     return abs(math.log(a) - math.log(b))
 
 
+@reaching()
 @settings(max_examples=300, deadline=None)
 @given(
     st.floats(min_value=1e-15, max_value=1e15, allow_nan=False, allow_infinity=False),
     st.sampled_from(eseries.SERIES),
 )
 def test_nearest_is_on_series_and_closest_in_log_distance(x, name):
+    reached()  # no early return: every example reaches the assertions
     result = eseries.nearest(x, name)
     k = math.floor(math.log10(result) + 1e-12)
     mant = result / 10.0**k
@@ -234,12 +237,14 @@ def test_bracket_vector_equals_scalar():
     assert list(b.on_series) == [False, True, False, True]
 
 
+@reaching()
 @settings(max_examples=200, deadline=None)
 @given(
     st.floats(min_value=1e-12, max_value=1e12, allow_nan=False, allow_infinity=False),
     st.sampled_from(eseries.SERIES),
 )
 def test_bracket_encloses_x_and_neighbours_are_adjacent(x, name):
+    reached()  # no early return: every example reaches the assertions
     b = eseries.bracket(x, name)
     assert b.below <= x * (1 + 1e-9) and b.above >= x * (1 - 1e-9)
     if b.below != b.above:

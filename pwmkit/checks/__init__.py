@@ -1,7 +1,9 @@
 """Design-rule checks: turn an evaluated design into findings with severities.
 
 :func:`run_checks` applies every rule of :mod:`pwmkit.checks.timing_rules` (timer and timing
-network), :mod:`pwmkit.checks.load_rules` (gate drive, MOSFET, freewheel diode, LEDs, motor) and
+network), :mod:`pwmkit.checks.two_timer_rules` (the voltage-controlled two-timer PWM),
+:mod:`pwmkit.checks.load_rules` (gate drive, MOSFET, freewheel diode, LEDs, motor),
+:mod:`pwmkit.checks.heater_rules` (heater surface, fault temperature, thermistor loop) and
 :mod:`pwmkit.checks.bench_rules` (bench readings of the built driver against the design) to
 a design and its evaluation, and returns a :class:`Findings` collection. Rules that do not apply
 to a design (motor rules for an LED load, pot rules for a fixed network, requirement rules without
@@ -18,14 +20,16 @@ from typing import Any
 
 from .bench_rules import RULES as _BENCH_RULES
 from .findings import ORIGIN_KINDS, SEVERITIES, Finding, Findings, severity_style
+from .heater_rules import RULES as _HEATER_RULES
 from .load_rules import RULES as _LOAD_RULES
 from .timing_rules import RULES as _TIMING_RULES
+from .two_timer_rules import RULES as _TWO_TIMER_RULES
 
 __all__ = ["Finding", "Findings", "CHECK_IDS", "RULES", "SEVERITIES", "ORIGIN_KINDS", "run_checks", "rule_doc",
            "severity_style"]
 
 #: Every rule, keyed by id, in the order they run.
-RULES = {**_TIMING_RULES, **_LOAD_RULES, **_BENCH_RULES}
+RULES = {**_TIMING_RULES, **_TWO_TIMER_RULES, **_LOAD_RULES, **_HEATER_RULES, **_BENCH_RULES}
 #: All rule ids.
 CHECK_IDS: tuple[str, ...] = tuple(RULES)
 

@@ -26,6 +26,7 @@ from dataclasses import dataclass
 from typing import Any, Literal, overload
 
 from ..errors import DesignError
+from ..origins import origin_text
 
 __all__ = ["SEVERITIES", "NOT_RUN", "ORIGIN_KINDS", "Severity", "Finding", "Findings", "severity_style"]
 
@@ -148,7 +149,7 @@ def _row_html(f: Finding) -> str:
             f"<td style='text-align:right;white-space:nowrap'>{html.escape(num(f.value))}</td>"
             f"<td style='text-align:right;white-space:nowrap'>{html.escape(num(f.limit))}</td>"
             f"<td style='max-width:34em'>{html.escape(f.explanation)}{remedy}<br><small>origin: "
-            f"{html.escape(f.origin)}</small></td></tr>")
+            f"{html.escape(origin_text(f.origin))}</small></td></tr>")
 
 
 class Findings(Sequence[Finding]):

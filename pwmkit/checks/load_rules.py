@@ -248,7 +248,7 @@ def led_current_spread(design: Any, ev: Any) -> Any:
     Worst case: highest load supply with the lowest V_F, and lowest supply with the highest V_F
     (``load.vf_spread`` per LED). Fail when the LEDs go dark at the lowest supply; warn when the
     current moves by more than 20 % (our judgement; a small headroom ``V_s − n·V_F`` makes the
-    current very sensitive, REFERENCES §9); ok otherwise. Origin: common-practice.
+    current very sensitive, series-resistor law, common practice); ok otherwise. Origin: common-practice.
     """
     if not _applies(design, "led") or ev.led is None:
         return None

@@ -31,7 +31,7 @@ def supply_oscillation(design: Any, ev: Any) -> Any:
     """The astable must oscillate at both ends of the supply range.
 
     Fail when the charge asymptote does not exceed the upper threshold or the discharge asymptote
-    does not fall below the lower threshold at ``vcc_min`` or ``vcc_max`` (REFERENCES §1.8); ok
+    does not fall below the lower threshold at ``vcc_min`` or ``vcc_max`` (oscillation conditions of the RC law: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7); ok
     otherwise. Origin: datasheet-generic (thresholds 1/3 and 2/3 of the supply).
     """
     err = ev.corners.error
@@ -53,7 +53,7 @@ def tolerance_analysis(design: Any, ev: Any) -> Any:
     Applies when the supply corners oscillate; listed as not run until the tolerance analysis runs
     (quick mode). Fail when
     Monte Carlo samples or worst-case points do not oscillate (the design sits near the limits of
-    REFERENCES §1.8); warn when part of the analysis could not run for another reason (e.g. an
+    oscillation conditions of the RC law: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7); warn when part of the analysis could not run for another reason (e.g. an
     ambient outside the capacitor dielectric's rated range); ok otherwise. Origin:
     datasheet-generic (thresholds 1/3 and 2/3 of the supply).
     """
@@ -124,6 +124,8 @@ def discharge_current(design: Any, ev: Any) -> Any:
     """
     fam = get_timer(design.timing.timer)
     t = ev.corners.timing_max if ev.corners.timing_max is not None else ev.timing
+    if getattr(ev, "two_timer", None) is not None:  # the clock astable (the monostable is in two_timer_rules)
+        t = ev.two_timer.clock
     vcc = float(np.max(t.vcc))
     vsat = design.timing.vsat if design.timing.vsat is not None else fam.vsat
     i_ra = (vcc - vsat) / design.timing.ra
@@ -182,6 +184,8 @@ def timing_bias_current(design: Any, ev: Any) -> Any:
     """
     fam = get_timer(design.timing.timer)
     t = ev.corners.timing_min if ev.corners.timing_min is not None else ev.timing
+    if getattr(ev, "two_timer", None) is not None:  # the clock astable (the monostable is in two_timer_rules)
+        t = ev.two_timer.clock
     i_b = fam.i_threshold_max
     charge = i_b * np.asarray(t.r_charge) / (np.asarray(t.v_charge) - np.asarray(t.v_upper))
     dis = i_b * np.asarray(t.r_discharge) / (np.asarray(t.v_lower) - np.asarray(t.v_discharge))
@@ -262,6 +266,10 @@ def duty_range(design: Any, ev: Any) -> Any:
         return None
     kind, want_lo, want_hi = spec
     title = "Duty range reachable"
+    if design.timing.topology == "two-timer":
+        from .two_timer_rules import duty_range_two_timer
+
+        return duty_range_two_timer(design, ev, title)
     window = f"{pct(want_lo)} … {pct(want_hi)}"
     rs = ev.requirement_spread
     if kind == "reach":

@@ -9,7 +9,8 @@ Split by physics, one module each:
 - :mod:`pwmkit.loads.motor` — steady-state chopper current (CCM/DCM) and start-up simulation;
 - :mod:`pwmkit.loads.mosfet` — gate drive, switching and conduction loss, junction temperature;
 - :mod:`pwmkit.loads.diode` — freewheel diode currents, loss, clamp decay;
-- :mod:`pwmkit.loads.thermal` — junction temperature through thermal resistance.
+- :mod:`pwmkit.loads.thermal` — junction temperature through thermal resistance;
+- :mod:`pwmkit.loads.heater` — resistive heater element, warm-up, ripple and a thermistor loop.
 
 The names below are re-exported lazily so that ``import pwmkit.loads`` stays cheap.
 """
@@ -38,6 +39,11 @@ _EXPORTS = {
     "clamp_decay": "diode",
     "junction_temperature": "thermal",
     "ThermalPath": "thermal",
+    "HeaterResult": "heater",
+    "closed_loop": "heater",
+    "ClosedLoop": "heater",
+    "ntc_resistance": "heater",
+    "thermistor_source": "heater",
 }
 
 __all__ = sorted(_EXPORTS)
@@ -47,5 +53,5 @@ __all__ = sorted(_EXPORTS)
 from .lightness import lightness, luminance_for_lightness  # noqa: E402, F401
 
 __getattr__, __dir__ = lazy_exports(
-    __name__, _EXPORTS, ("led", "lightness", "flicker", "motor", "mosfet", "diode", "thermal"), globals()
+    __name__, _EXPORTS, ("led", "lightness", "flicker", "motor", "mosfet", "diode", "thermal", "heater"), globals()
 )

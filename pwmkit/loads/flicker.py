@@ -26,8 +26,8 @@ first). Results never hold ``inf`` or ``NaN``: "no restriction" is ``None``.
 References
 ----------
 IEEE Std 1789-2015, *IEEE Recommended Practices for Modulating Current in High-Brightness LEDs for
-Mitigating Health Risks to Viewers*, RP1/RP2 — coefficients from a secondary summary, consistent
-with memory of the standard's figure (primary text not read).
+Mitigating Health Risks to Viewers*, RP1/RP2 — coefficients from a secondary summary of the
+standard's figure (from memory; primary text not read).
 IES lighting definitions, "flicker index" and "percent flicker"; IEC 60050-845:2020, 845-22-094.
 """
 
@@ -74,8 +74,8 @@ class FlickerRegion:
             np.where(m < self.slope_high * self.f_step, self.f_step, np.minimum(m / self.slope_high, self.f_top))))
 
 
-_SOURCE = ("IEEE Std 1789-2015 recommended practices RP1/RP2 (coefficients from a secondary summary, "
-           "check the figures against the standard)")
+_SOURCE = ("IEEE Std 1789-2015 recommended practices RP1/RP2 (coefficients as published in summaries of "
+           "the standard; check the standard's text before relying on a boundary)")
 #: RP1: low risk of flicker effects.
 LOW_RISK = FlickerRegion("low-risk", 0.025, 0.08, 90.0, 1250.0, _SOURCE)
 #: RP2: no observable effect level (NOEL).
@@ -221,8 +221,8 @@ def ieee1789_limits(frequency: Any) -> Ieee1789Limits:
 
     References
     ----------
-    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary, consistent with memory of
-    the standard's figure).
+    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary of the
+    standard's figure; from memory).
     """
     f = quantity(frequency, "frequency", unit="Hz", minimum=0.0, min_inclusive=False)
     _single(f)
@@ -293,8 +293,8 @@ def flicker_class(frequency: Any, modulation_percent: Any) -> Any:
 
     References
     ----------
-    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary, consistent with memory of
-    the standard's figure).
+    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary of the
+    standard's figure; from memory).
     """
     f = quantity(frequency, "frequency", unit="Hz", minimum=0.0, min_inclusive=False)
     m = quantity(modulation_percent, "modulation_percent", unit="%", minimum=0.0, maximum=100.0)
@@ -378,8 +378,8 @@ def pwm_flicker(frequency: Any, duty: Any, residual: Any = 0.0) -> PwmFlicker:
 
     References
     ----------
-    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary, consistent with memory of
-    the standard's figure); IES lighting definitions, "flicker index".
+    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary of the
+    standard's figure; from memory); IES lighting definitions, "flicker index".
     """
     f = quantity(frequency, "frequency", unit="Hz", minimum=0.0, min_inclusive=False)
     d = quantity(duty, "duty", minimum=0.0, maximum=1.0)
@@ -454,8 +454,8 @@ def ieee1789_curves(f_min: Any = 1.0, f_max: Any = 10_000.0, cap_percent: Any = 
 
     References
     ----------
-    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary, consistent with memory of
-    the standard's figure).
+    IEEE Std 1789-2015, RP1/RP2 (coefficients from a secondary summary of the
+    standard's figure; from memory).
     """
     lo = quantity(f_min, "f_min", unit="Hz", minimum=0.0, min_inclusive=False)
     hi = quantity(f_max, "f_max", unit="Hz", minimum=0.0, min_inclusive=False)

@@ -1,6 +1,6 @@
 """Low-side MOSFET driven from a timer output: gate drive, switching and conduction loss, T_j.
 
-Model (REFERENCES §7.1): clamped inductive load with a freewheel diode, gate
+Model (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory): clamped inductive load with a freewheel diode, gate
 charge curve of :class:`pwmkit.parts.mosfets.MosfetFamily`, gate loop
 resistances ``R_on = R_source + R_G,ext + R_G,int`` and
 ``R_off = R_sink + R_G,ext + R_G,int``:
@@ -81,7 +81,7 @@ class GateDrive:
     i_g_on, i_g_off : float
         Gate currents on the Miller plateau [A].
     c_iss, q_gs2, q_g_drive : float
-        Input capacitance [F], charge from V_th to plateau [C], total charge at the drive level [C].
+        Input capacitance [F], charge from V_th to plateau (regression pin), total charge at the drive level (regression pin).
     t_d_on, t_ri, t_fv, t_on : float
         Turn-on delay, current rise, voltage fall, and ``t_on = t_ri + t_fv`` [s].
     t_d_off, t_rv, t_fi, t_off : float
@@ -129,7 +129,7 @@ def gate_drive(
     r_sink: float | None = None,
     v_drive_low: float = 0.0,
 ) -> GateDrive:
-    """Gate drive and gate-charge switching times of a MOSFET (REFERENCES §7.1).
+    """Gate drive and gate-charge switching times of a MOSFET (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory).
 
     .. math::
 
@@ -173,7 +173,7 @@ def gate_drive(
     Constant plateau voltage (taken at the data-sheet test current). A driver's
     own edge rate (≈100 ns for a bipolar 555-type output) can dominate when the
     gate-charge times come out shorter; compare with the timer's rise/fall time.
-    Reproduces REFERENCES §7.2: 12 V drive, 10 Ω + 10 Ω + 2 Ω → t_on 29.99 ns, t_off 49.98 ns.
+    Reproduces Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory: 12 V drive, 10 Ω + 10 Ω + 2 Ω → t_on 29.99 ns, t_off 49.98 ns.
 
     Examples
     --------
@@ -347,7 +347,7 @@ def mosfet_losses(
     r_theta : float, optional
         Junction-to-ambient thermal resistance [K/W]; defaults to the family's ``r_theta_ja``.
     q_rr : float
-        Freewheel-diode recovered charge dumped into the switch at turn-on [C] (0 for Schottky).
+        Freewheel-diode recovered charge dumped into the switch at turn-on (regression pin) (0 for Schottky).
     extras : bool
         Include ``p_coss``, ``p_rr`` and ``p_gate_internal`` in the total (True), or
         only switching overlap plus conduction (False, the textbook budget).
@@ -369,7 +369,7 @@ def mosfet_losses(
     ``runaway = True`` and *no* temperature: ``tj_c``, ``p_cond``, ``p_total``,
     ``rds_on_hot`` and ``tj_margin`` are ``None`` (scalar input) or masked
     (array input). It is not raised, so a sweep can show where it starts.
-    Reproduces REFERENCES §7.2 (extras off): P_sw 19.19 mW, T_j 45.19 °C,
+    Reproduces Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory (extras off): P_sw 19.19 mW, T_j 45.19 °C,
     R_DS(on) 23.02 mΩ.
 
     Examples

@@ -1,6 +1,6 @@
 """Brushed DC motor on a low-side PWM switch with a freewheeling diode.
 
-Armature model (REFERENCES §6.1): ``v_a = R·i + L·di/dt + E``, ``E = K_e·ω``.
+Armature model (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 7, from memory): ``v_a = R·i + L·di/dt + E``, ``E = K_e·ω``.
 Switch on: terminal voltage ``V``; off: the current freewheels through the
 diode at ``-V_f`` until it reaches zero, then stays zero (discontinuous
 conduction, DCM). The current never reverses (regenerative current through the
@@ -275,7 +275,7 @@ def motor_current(v: Any, e: Any, r: Any, l: Any, duty: Any, f: Any, vf: Any = 0
     """Steady-state chopper current of a DC motor: exact piecewise-exponential solution (CCM and DCM).
 
     With ``z = R/(L·f)``, ``a = e^{-Dz}``, ``b = e^{-(1-D)z}``, ``A_on = (V-E)/R``,
-    ``A_off = -(E+V_f)/R`` (REFERENCES §6.2, §6.3):
+    ``A_off = -(E+V_f)/R`` (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 7, from memory):
 
     .. math::
 
@@ -323,7 +323,7 @@ def motor_current(v: Any, e: Any, r: Any, l: Any, duty: Any, f: Any, vf: Any = 0
     (mechanical time constant ≫ ``1/f``). Current never reverses: with
     ``e >= v`` (motor overhauled, generating) or ``duty = 0`` no current flows
     and the result is all zeros in ``"discontinuous"`` mode. Reproduces the
-    REFERENCES §6.2 worked values (12 V, 6 V, 1.5 Ω, 1 mH, 20 kHz, D 0.7:
+    Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 7, from memory worked values (12 V, 6 V, 1.5 Ω, 1 mH, 20 kHz, D 0.7:
     ``I_max`` 1.662679 A, ``I_min`` 1.536691 A) and the §6.3 DCM case.
 
     Examples
@@ -442,7 +442,7 @@ def stall_current(params: MotorParams, v: Any, duty: Any = 1.0, f: Any = 20e3, v
     """Current with the rotor held (``E = 0``): the worst case for switch and diode ratings.
 
     At stall ``I_mean = (D·V - (1-D)·V_f)/R`` and the diode average
-    ``(1-D)·D·V/R`` peaks at ``D = 0.5`` at ``V/(4R)`` (REFERENCES §6.3, §8.1).
+    ``(1-D)·D·V/R`` peaks at ``D = 0.5`` at ``V/(4R)`` (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 7, from memory; stall current as the worst case, common practice).
 
     Parameters
     ----------

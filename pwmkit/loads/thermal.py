@@ -230,7 +230,7 @@ def junction_temperature(
     -----
     Assumes ``P(T)`` non-decreasing in ``T`` (the usual case). For a negative
     temperature coefficient the plain iteration still converges when the loop
-    gain magnitude is below 1. Reproduces REFERENCES §7.2: 20 mΩ at 25 °C, α = 0.7 %/K,
+    gain magnitude is below 1. Reproduces Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory: 20 mΩ at 25 °C, α = 0.7 %/K,
     1.6733 A rms, 19.19 mW switching, 62 K/W, 40 °C → 45.19 °C.
 
     Examples

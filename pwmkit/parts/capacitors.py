@@ -24,7 +24,7 @@ References
 ----------
 .. [1] EIA-198 / IEC 60384-8 and -9 temperature-characteristic codes for ceramic capacitors, as
    reproduced in makers' catalogues (from memory; the standards themselves were not read).
-.. [2] REFERENCES.md §1.9 (capacitor tolerances, common practice).
+.. [2] first-order sensitivity of T = R·C·ln(…), common practice (capacitor tolerances, common practice).
 """
 
 from __future__ import annotations
@@ -194,7 +194,10 @@ class Dielectric:
             ("DC bias", self.dc_bias_note, ""),
             ("leakage", self.leakage_note, ""),
         ]
-        body = "".join(f"<tr><th style='text-align:left'>{a}</th><td>{b}</td><td>{c}</td></tr>" for a, b, c in rows)
+        from ..origins import origin_text
+
+        body = "".join(f"<tr><th style='text-align:left'>{a}</th><td>{origin_text(b)}</td><td>{origin_text(c)}</td></tr>"
+                       for a, b, c in rows)
         return f"<table><caption>dielectric {self.name} — {self.description}</caption>{body}</table>"
 
 

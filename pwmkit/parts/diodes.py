@@ -45,6 +45,7 @@ import numpy as np
 
 from .._validate import is_scalar_input, quantity, scalar
 from ..errors import DesignError
+from ..origins import origin_text
 from ..ranges import checked
 
 __all__ = [
@@ -426,7 +427,7 @@ class DiodeFamily:
         for f in fields(self):
             if f.name in _UNITS:
                 val = getattr(self, f.name)
-                tag = self.origin.get(f.name, "user")
+                tag = origin_text(self.origin.get(f.name, "user"))
                 rows.append((f.name, f"{_fmt(val, _UNITS[f.name])}  [{tag}]"))
         return _html_table(f"diode family {self.name}", rows)
 

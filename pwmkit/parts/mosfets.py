@@ -7,7 +7,7 @@ per value (``"datasheet-generic"``, ``"common-practice"``, ``"from-memory"``,
 made-up but realistic (tagged ``"demo"``); for a real design pass the numbers
 from your part's data sheet to the constructor.
 
-Gate-charge curve used throughout (REFERENCES §7.1, linear pieces):
+Gate-charge curve used throughout (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §2-7 and ch. 22, from memory, linear pieces):
 
 * ``0 … V_pl``: ``Q = Q_gs·V/V_pl`` (``C_iss ≈ Q_gs/V_pl``);
 * Miller plateau at ``V_pl``: ``Q_gs … Q_gs + Q_gd``;
@@ -32,6 +32,7 @@ import numpy as np
 
 from .._validate import is_scalar_input, quantity
 from ..errors import DesignError
+from ..origins import origin_text
 from .diodes import ORIGINS, _fmt, _html_table
 
 __all__ = ["MosfetFamily", "LOGIC_LEVEL_30V", "STANDARD_LEVEL_60V", "MOSFETS", "get_mosfet"]
@@ -70,11 +71,11 @@ class MosfetFamily:
     v_plateau : float
         Miller plateau voltage at the rated test current [V].
     q_g : float
-        Total gate charge at ``v_gs_q`` [C].
+        Total gate charge at ``v_gs_q`` (regression pin).
     v_gs_q : float
         Gate voltage at which ``q_g`` is given [V].
     q_gs, q_gd : float
-        Gate-source and gate-drain (Miller) charge [C].
+        Gate-source and gate-drain (Miller) charge (regression pin).
     r_g_int : float
         Internal gate resistance [Ω].
     c_oss : float
@@ -175,7 +176,7 @@ class MosfetFamily:
 
     @property
     def q_gs2(self) -> float:
-        """Gate charge from ``V_th`` to the plateau ``Q_gs·(V_pl - V_th)/V_pl`` [C]."""
+        """Gate charge from ``V_th`` to the plateau ``Q_gs·(V_pl - V_th)/V_pl`` (regression pin)."""
         return self.q_gs * (self.v_plateau - self.v_th) / self.v_plateau
 
     @property
@@ -184,7 +185,7 @@ class MosfetFamily:
         return (self.q_g - self.q_gs - self.q_gd) / (self.v_gs_q - self.v_plateau)
 
     def q_g_at(self, v_gs: Any) -> Any:
-        """Gate charge needed to reach ``v_gs`` from 0 V (piecewise-linear curve) [C].
+        """Gate charge needed to reach ``v_gs`` from 0 V (piecewise-linear curve) (regression pin).
 
         Parameters
         ----------
@@ -194,7 +195,7 @@ class MosfetFamily:
         Returns
         -------
         float or numpy.ndarray
-            Charge [C]; above the plateau it includes the whole Miller charge.
+            Charge (regression pin); above the plateau it includes the whole Miller charge.
         """
         v = quantity(v_gs, "v_gs", unit="V", minimum=0.0)
         va = np.asarray(v, dtype=float)
@@ -254,7 +255,7 @@ class MosfetFamily:
             if f.name in _UNITS:
                 val = getattr(self, f.name)
                 text = "—" if val is None else _fmt(val, _UNITS[f.name])
-                rows.append((f.name, f"{text}  [{self.origin.get(f.name, 'user')}]"))
+                rows.append((f.name, f"{text}  [{origin_text(self.origin.get(f.name, 'user'))}]"))
         return _html_table(f"MOSFET family {self.name}", rows)
 
 
@@ -276,7 +277,7 @@ LOGIC_LEVEL_30V = MosfetFamily(
 #: Standard-level 60 V MOSFET, TO-220 class (made-up, realistic demo values).
 STANDARD_LEVEL_60V = MosfetFamily(
     name="standard-level-60v", level="standard", v_ds_max=60.0, i_d_max=30.0,
-    rds_on=0.025, v_gs_rated=10.0, rds_on_at_4v5=None, alpha=0.007,
+    rds_on=0.025, v_gs_rated=10.0, rds_on_at_4v5=None, alpha=0.0055,
     v_th=3.0, v_plateau=5.0, q_g=30e-9, v_gs_q=10.0, q_gs=7e-9, q_gd=10e-9,
     r_g_int=2.0, c_oss=250e-12, v_gs_max=20.0, r_theta_ja=62.0, r_theta_jc=1.5, tj_max_c=175.0,
     origin=_demo_tags(r_theta_ja="from-memory", v_gs_max="common-practice"),

@@ -30,6 +30,7 @@ from typing import Any, Literal
 import numpy as np
 
 from .._validate import quantity
+from ..origins import origin_text
 from ..ranges import checked
 
 __all__ = ["TimerFamily", "BIPOLAR", "CMOS", "TIMERS", "get_timer"]
@@ -160,7 +161,7 @@ class TimerFamily:
 
     def _repr_html_(self) -> str:
         rows = "".join(
-            f"<tr><td>{k}</td><td>{getattr(self, k)!r}</td><td>{self.origin.get(k, '')}</td></tr>"
+            f"<tr><td>{k}</td><td>{getattr(self, k)!r}</td><td>{origin_text(self.origin.get(k, ''))}</td></tr>"
             for k in self.__dataclass_fields__
             if k not in ("origin",)
         )

@@ -111,7 +111,7 @@ def bom_rows(design: Design, evaluation: Any = None) -> list[BomRow]:
     v_max = design.supply_range[1]
     rows: list[BomRow] = []
     fam = get_timer(t.timer)
-    rows.append(BomRow("U1", 1, "555-type timer", "", "", "",
+    rows.append(BomRow("U1", 1, "555-type timer" + (", astable clock" if t.topology == "two-timer" else ""), "", "", "",
                        f"{fam.description}; supply {fam.vcc_min:g}…{fam.vcc_max:g} V"))
     rows.append(BomRow("R1", 1, "resistor, charge path (ra)", _fv(t.ra, "Ω"), t.r_series, _pct(t.r_tolerance),
                        _series_note(t.ra, t.r_series, "Ω")))
@@ -142,6 +142,10 @@ def bom_rows(design: Design, evaluation: Any = None) -> list[BomRow]:
         vd = f"drop {_fv(t.vd, 'V')} in the design" if t.vd is not None else "drop from the diode model"
         rows.append(BomRow(refs, 1 if t.topology == "bypass" else 2, "diode, steering", "", "", "",
                            f"{dio.name} ({dio.kind}); {vd}"))
+    if t.topology == "two-timer":
+        from .bom_two_timer import two_timer_rows
+
+        rows += two_timer_rows(design, BomRow, _fv, _pct, _series_note)
     if design.load is not None:
         mos = get_mosfet(design.switch.mosfet)
         rows.append(BomRow("Q1", 1, "N-channel MOSFET, low side", "", "", "",
@@ -184,6 +188,10 @@ def bom_rows(design: Design, evaluation: Any = None) -> list[BomRow]:
                                "", "", "faster current decay at switch-off"))
         rows.append(BomRow("M1", 1, "brushed DC motor / fan", "", "", "",
                            f"R {_fv(load.r, 'Ω')}, L {_fv(load.l, 'H')}, k_e {load.ke:.4g} V·s/rad"))
+    elif load is not None and load.kind == "heater":
+        from .bom_two_timer import heater_rows
+
+        rows += heater_rows(design, BomRow, _fv, _series_note)
     return rows
 
 

@@ -9,7 +9,7 @@ the design objects::
     [design]          # name, vcc, vcc_min, vcc_max, v_load, t_ambient_c …, notes
     [requirements]    # frequency, frequency_tolerance, duty, duty_min, duty_max, flicker, criterion, min_yield
     [timing]          # topology, ra, rb, c, pot, wiper, … timer, series and tolerances
-    [load]            # kind = "led" or "motor", then that load's fields (section absent = no load)
+    [load]            # kind = "led", "motor" or "heater", then that load's fields (section absent = no load)
     [switch]          # mosfet, r_gate
     [freewheel]       # diode, clamp, v_zener
 
@@ -44,7 +44,7 @@ from collections.abc import Mapping
 from pathlib import Path
 from typing import Any
 
-from ..design import Design, Freewheel, LedLoad, MotorLoad, Requirements, Switch, Timing
+from ..design import Design, Freewheel, HeaterLoad, LedLoad, MotorLoad, Requirements, Switch, Timing
 from ..errors import DesignError
 from .files import MAX_DESIGN_BYTES, atomic_write, read_limited
 
@@ -66,7 +66,7 @@ _SECTIONS: dict[str, Any] = {
     "switch": Switch,
     "freewheel": Freewheel,
 }
-_LOADS: dict[str, Any] = {"led": LedLoad, "motor": MotorLoad}
+_LOADS: dict[str, Any] = {"led": LedLoad, "motor": MotorLoad, "heater": HeaterLoad}
 _SECTION_ORDER = ("design", "requirements", "timing", "load", "switch", "freewheel")
 _TOP_KEYS = ("format", "version", *_SECTION_ORDER, "bench")
 
@@ -90,6 +90,11 @@ UNITS: Mapping[str, str] = {
     "load.r": "Ω", "load.l": "H", "load.ke": "V·s/rad", "load.b": "N·m·s/rad", "load.t_load": "N·m",
     "load.j": "kg·m²",
     "switch.r_gate": "Ω", "freewheel.v_zener": "V",
+    "timing.r_mono": "Ω", "timing.c_mono": "F", "timing.vctl_min": "V", "timing.vctl_max": "V",
+    "timing.r_ctl_source": "Ω",
+    "load.r_cold": "Ω", "load.alpha": "1/K", "load.t_ref_c": "°C", "load.r_th": "K/W", "load.c_th": "J/K",
+    "load.t_surface_max_c": "°C", "load.ntc_r25": "Ω", "load.ntc_beta": "K", "load.r_set": "Ω",
+    "load.tau_sensor": "s", "load.ntc_tolerance": "%", "load.r_tolerance": "%",
 }
 
 #: Longest text accepted for a text field [characters].
@@ -135,7 +140,7 @@ def section_fields(section: str, kind: str | None = None) -> dict[str, _Field]:
         return _fields_of(Design, "design", _SUBOBJECTS)
     if section == "load":
         if kind is None:
-            raise DesignError("load: give kind = 'led' or 'motor'")
+            raise DesignError("load: give kind = 'led', 'motor' or 'heater'")
         return {"kind": _Field("kind", "text", False, None), **_fields_of(_LOADS[kind], "load")}
     return _fields_of(_SECTIONS[section], section)
 
@@ -187,7 +192,7 @@ def _comment(path: str, value: Any) -> str:
         return ""
     if unit == "%":
         return f"  # {100 * value:.6g} %"
-    if unit in ("°C", "V·s/rad", "N·m·s/rad", "N·m", "kg·m²"):
+    if unit in ("°C", "V·s/rad", "N·m·s/rad", "N·m", "kg·m²", "1/K", "K/W", "J/K", "K"):
         return ""
     from ..values import format_value
 
@@ -447,7 +452,7 @@ def _from_data(data: dict[str, Any]) -> Design:
         table = _table("load", data["load"])
         kind = table.get("kind")
         if kind is None:
-            raise DesignError(f"load.kind: missing; give kind = \"led\" or \"motor\" (or leave out [load] "
+            raise DesignError(f"load.kind: missing; give kind = \"led\", \"motor\" or \"heater\" (or leave out [load] "
                               f"for a timer without a load); keys given: {', '.join(table) or 'none'}")
         if not isinstance(kind, str) or kind.strip().lower() not in _LOADS:
             raise DesignError(f"load.kind: {_short(kind)} is not allowed; allowed: {', '.join(_LOADS)}")

@@ -393,6 +393,10 @@ def worked(design: Design, quantity: str = "t_high", fmt: str = "markdown") -> s
     str
     """
     _check(quantity, fmt, FORMATS)
+    if isinstance(design, Design) and design.timing.topology == "two-timer":
+        from .formulas_two_timer import worked_two_timer
+
+        return worked_two_timer(design, quantity, fmt if fmt in ("unicode", "markdown") else "markdown")
     w = _worked_parts(design, quantity)
     lhs_tex, lhs_plain, unit, meaning = _INFO[quantity]
     result = _result_text(quantity, w["value"])
@@ -497,6 +501,10 @@ def formula_sheet(design: Design, fmt: str = "markdown") -> str:
     str
     """
     _check("t_high", fmt, FORMATS)
+    if isinstance(design, Design) and design.timing.topology == "two-timer":
+        from .formulas_two_timer import formula_sheet_two_timer
+
+        return formula_sheet_two_timer(design, fmt)
     discharge, control, values = design_variant(design)
     topology = design.timing.topology
     intro = _sheet_intro(design, discharge, control)

@@ -25,6 +25,7 @@ from typing import Any
 
 from ..design import Design, LedLoad, MotorLoad
 from ..errors import DesignError
+from ..two_timer_design import circuit_words as _circuit_words
 
 __all__ = ["report_html", "write_report", "finding_value_text"]
 
@@ -131,9 +132,16 @@ def _circuit(design: Design, evaluation: Any) -> str:
 
     t = design.timing
     fam = get_timer(t.timer)
-    parts = [f"A {fam.description} runs as an astable multivibrator from {_fv(design.vcc, 'V')}. "
-             + _TOPOLOGY_TEXT[t.topology]]
-    if t.vctl is not None:
+    if t.topology == "two-timer":
+        from .report_two_timer import circuit_text
+
+        parts = circuit_text(design, evaluation)
+    else:
+        parts = [f"A {fam.description} runs as an astable multivibrator from {_fv(design.vcc, 'V')}. "
+                 + _TOPOLOGY_TEXT[t.topology]]
+    if t.topology == "two-timer":
+        pass
+    elif t.vctl is not None:
         parts.append(f"An external {_fv(t.vctl, 'V')} at the control pin sets the upper threshold (the lower "
                      "one is half of it).")
     elif t.r_cv is not None:
@@ -158,6 +166,11 @@ def _circuit(design: Design, evaluation: Any) -> str:
         parts.append(f"The load is a brushed DC motor (R {_fv(load.r, 'Ω')}, L {_fv(load.l, 'H')}) from "
                      f"{_fv(design.load_supply, 'V')}, with a freewheel diode ({design.freewheel.diode}){clamp} "
                      "across it.")
+    elif load is not None and load.kind == "heater":
+        parts.append(f"The load is a resistive heater element ({_fv(load.r_cold, 'Ω')} at {load.t_ref_c:g} °C, "
+                     f"temperature coefficient {load.alpha:g} /K) from {_fv(design.load_supply, 'V')}"
+                     + (f", with a {load.t_cutout_c:g} °C thermal cut-out in series." if load.t_cutout_c is not None
+                        else "; no thermal cut-out is fitted."))
     return "<p>" + " ".join(_e(p) for p in parts) + "</p>"
 
 
@@ -175,6 +188,10 @@ def _schematic(design: Design, evaluation: Any) -> str:
 
 
 def _timing(evaluation: Any) -> str:
+    if getattr(evaluation, "two_timer", None) is not None:
+        from .report_two_timer import timing_html
+
+        return timing_html(evaluation, _table)
     ex, ideal = evaluation.timing, evaluation.ideal
     rows = []
     from .. import glossary as g
@@ -253,6 +270,7 @@ def finding_value_text(x: float | None, unit: str) -> str:
 def _findings(evaluation: Any) -> str:
     from .. import glossary as g
     from ..checks import severity_style
+    from ..origins import origin_text
 
     fs = evaluation.findings
     order = {"fail": 0, "warn": 1, "ok": 2}
@@ -264,7 +282,7 @@ def _findings(evaluation: Any) -> str:
         rows.append(f"<tr><td><span class='sev sev-{_e(f.severity)}'>{_e(symbol)} {_e(word)}</span></td>"
                     f"<td><b>{_e(f.title)}</b><br><code>{_e(f.id)}</code></td><td class='num'>{_e(finding_value_text(f.value, f.unit))}</td>"
                     f"<td class='num'>{_e(bound)}</td><td>{_e(f.explanation)}{remedy}"
-                    f"<br><span class='note'>{_e(g.SOURCE)}: {_e(g.source_label(f.origin))}</span></td></tr>")
+                    f"<br><span class='note'>{_e(g.SOURCE)}: {_e(origin_text(f.origin))}</span></td></tr>")
     head = ("<tr><th>severity</th><th>rule</th><th class='num'>value</th><th class='num'>compared with</th>"
             "<th>finding</th></tr>")
     return f"<table class='findings'><thead>{head}</thead><tbody>{''.join(rows)}</tbody></table>"
@@ -273,6 +291,10 @@ def _findings(evaluation: Any) -> str:
 def _formulas(design: Design) -> str:
     from .formulas import design_variant, formula, worked
 
+    if design.timing.topology == "two-timer":
+        from .report_two_timer import formulas_html
+
+        return formulas_html(design)
     discharge, control, _ = design_variant(design)
     topo = design.timing.topology
     out = []
@@ -289,6 +311,14 @@ def _formulas(design: Design) -> str:
 
     out.append(f"<details><summary>symbols</summary><pre>{_e(symbol_table('unicode'))}</pre></details>")
     return "".join(out)
+
+
+def _heater_section(evaluation: Any) -> list[tuple[str, str, str]]:
+    if getattr(evaluation, "heater", None) is None:
+        return []
+    from .report_two_timer import heater_html
+
+    return [("heater", "Heater element and temperature", heater_html(evaluation, _table))]
 
 
 def _cautions(evaluation: Any) -> str:
@@ -417,6 +447,7 @@ def report_html(design: Design, evaluation: Any = None, *, source_name: str | No
          + f"<div class='plot'>{divs.get('waveform', '')}</div>"
          + (f"<h3>Pot travel</h3><div class='plot'>{divs['pot']}</div>" if "pot" in divs else "")
          + (f"<h3>MOSFET losses</h3><div class='plot'>{divs['losses']}</div>" if "losses" in divs else "")),
+        *_heater_section(evaluation),
         ("spread", "Spread over tolerances, temperature and supply", _spread(evaluation)
          + (f"<div class='plot'>{divs['spread']}</div>" if "spread" in divs else "")),
         *([("as-built", "As designed vs as built", _as_built(design, evaluation, divs))] if design.bench else []),
@@ -424,6 +455,11 @@ def report_html(design: Design, evaluation: Any = None, *, source_name: str | No
         ("formulas", "Timing formulas with this design's numbers", _formulas(design)),
         ("cautions", "Cautions", _cautions(evaluation)),
     ]
+    from .report_crosscheck import crosscheck_section
+
+    crosscheck = crosscheck_section(design)  # only where ngspice is installed
+    if crosscheck is not None:
+        sections.insert(-1, ("crosscheck", "Cross-check with a circuit simulation (ngspice)", crosscheck))
     body = "".join(f"<section id='{sid}'><h2>{_e(title)}</h2>{content}</section>" for sid, title, content in sections)
     return (
         "<!DOCTYPE html>\n<html lang='en'><head><meta charset='utf-8'>"
@@ -431,7 +467,7 @@ def report_html(design: Design, evaluation: Any = None, *, source_name: str | No
         f"<meta name='generator' content='pwmkit {_e(pwmkit.__version__)}'>"
         f"<title>pwmkit design record — {name}</title><style>{_CSS}</style>{head_js}</head>"
         f"<body><main><header class='top'><h1>Design record — {name}</h1>"
-        f"<p>{_e(g.topology_label(design.timing.topology))} astable, {_e(g.timer_label(design.timing.timer))} timer"
+        f"<p>{_e(_circuit_words(design.timing.topology))}, {_e(g.timer_label(design.timing.timer))} timer"
         f"{', ' + _e(g.load_label(design.load.kind)) + ' load' if design.load is not None else ''}. "
         "Every figure below is computed by pwmkit's models from the design file.</p>"
         f"{_record_header(design, source_name, source_bytes, date)}</header>"

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from ..errors import DesignError
 from .draw import draw
 from .parts import Schematic
 
@@ -28,6 +29,10 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     from ..glossary import diode_label, mosfet_label, timer_part_label
 
     t = design.timing
+    if t.topology == "two-timer":
+        from .two_timer import for_two_timer
+
+        return for_two_timer(design, annotate=annotate, timing=timing)
     kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass,
                               diode_part=diode_label(t.diode), timer_part=timer_part_label(t.timer))
     if t.topology == "pot":
@@ -44,6 +49,9 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
             kw["v_load"] = design.v_load
         if load.kind == "led":
             kw.update(load="led", n_series=load.n_series, n_parallel=load.n_parallel, r_led=load.r_series)
+        elif load.kind == "heater":
+            raise DesignError("design.load: the schematic draws heater loads on the two-timer topology only; "
+                              "this astable drawing knows LED and motor loads")
         else:
             kw.update(load="motor", clamp=design.freewheel.clamp,
                       freewheel_part=f"freewheel {diode_label(design.freewheel.diode)}")

@@ -49,6 +49,9 @@ class AstableResult:
     r_charge, r_discharge : resistance of the charge and discharge paths [Ω]
     c : timing capacitance [F]
     vcc : supply [V]
+    v_charge_change : bypass topology only (else None): capacitor voltage where the diode across
+        ``rb`` stops conducting, clipped to the swing (``v_upper``: it conducts throughout) [V]
+    r_charge_after : bypass only (else None): charge resistance after that point, ``ra + rb`` [Ω]
     """
 
     topology: str
@@ -63,6 +66,8 @@ class AstableResult:
     r_discharge: Any
     c: Any
     vcc: Any
+    v_charge_change: Any = None
+    r_charge_after: Any = None
 
     @functools.cached_property
     def period(self) -> Any:
@@ -233,6 +238,36 @@ def _inputs(topology: str, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any, wiper: 
     return q
 
 
+def _bypass_turn_off(q: dict[str, Any]) -> Any:
+    """Capacitor voltage above which the bypass diode stops conducting during the charge [V].
+
+    With a constant-drop diode across ``rb``, the diode carries current only while the current in
+    ``ra``, ``(vcc − vd − v)/ra``, exceeds what ``rb`` alone carries at the diode's drop, ``vd/rb``;
+    that holds below ``v_off = vcc − vd·(ra + rb)/rb`` (−∞ for ``rb = 0``: ``rb`` shorts the diode).
+    Above ``v_off`` the capacitor charges through ``ra + rb`` toward ``vcc``.
+    """
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rb = np.asarray(q["rb"], dtype=float)
+        v_off = np.where(rb > 0, q["vcc"] - q["vd"] * (q["ra"] + rb) / np.where(rb > 0, rb, 1.0), -np.inf)
+    return v_off
+
+
+def _bypass_t_high(q: dict[str, Any], t_high: Any) -> Any:
+    """Charge time of the bypass topology where the diode stops conducting below the upper threshold [s]."""
+    v_off = _bypass_turn_off(q)
+    v_upper, v_lower = q["vctl"], q["vctl"] / 2.0
+    if not np.any(v_off < v_upper):
+        return t_high
+    ra, rb, c, vcc, vd = q["ra"], q["rb"], q["c"], q["vcc"], q["vd"]
+    with np.errstate(all="ignore"):
+        v_x = np.clip(v_off, v_lower, v_upper)  # where the path changes, kept inside the swing
+        # diode conducting from v_lower to v_x (toward vcc − vd through ra), then ra + rb toward vcc
+        t1 = ra * c * np.log((vcc - vd - v_lower) / (vcc - vd - v_x))
+        t1 = np.where(v_x > v_lower, t1, 0.0)
+        t2 = (ra + rb) * c * np.log((vcc - v_x) / (vcc - v_upper))
+        return np.where(v_off < v_upper, t1 + t2, t_high)
+
+
 def _check_shapes(q: dict[str, Any]) -> None:
     """Array inputs must broadcast together; else a DesignError naming the fields and their shapes."""
     shaped = {k: np.shape(v) for k, v in q.items() if k != "timer" and np.ndim(v) > 0}
@@ -249,9 +284,12 @@ def _check_shapes(q: dict[str, Any]) -> None:
 def _check_oscillates(topology: str, q: dict[str, Any], p: Any, v_lower: Any = None) -> None:
     v_upper = q["vctl"]
     v_lower = q["vctl"] / 2.0 if v_lower is None else v_lower
-    if not np.all(p.v_charge > v_upper):
-        bad = np.logical_not(p.v_charge > v_upper)
-        vch, vu, vcc, vd = _first_bad(bad, p.v_charge, v_upper, q["vcc"], q["vd"])
+    v_charge = p.v_charge
+    if topology == "bypass":  # the diode stops conducting: the last part of the charge heads for vcc
+        v_charge = np.where(_bypass_turn_off(q) < v_upper, q["vcc"], p.v_charge)
+    if not np.all(v_charge > v_upper):
+        bad = np.logical_not(v_charge > v_upper)
+        vch, vu, vcc, vd = _first_bad(bad, v_charge, v_upper, q["vcc"], q["vd"])
         what = f"supply {vcc:.4g} V" if topology == "classic" else f"supply {vcc:.4g} V minus diode drop {vd:.4g} V"
         raise ModelLimit(
             f"vcc: {what} = {vch:.4g} V cannot reach the upper threshold {vu:.4g} V; the capacitor stalls "
@@ -329,6 +367,12 @@ def astable(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: Any = Non
 
     Notes
     -----
+    Bypass topology: the diode across ``rb`` conducts only while the charge current exceeds
+    ``vd/rb``. Where it stops conducting below the upper threshold (small ``rb``, large ``vd``),
+    the rest of the charge runs through ``ra + rb`` toward ``vcc`` and ``t_high`` is the sum of
+    the two segments (the symbolic form covers the conducting segment); ``r_charge`` and
+    ``v_charge`` describe the conducting diode.
+
     Steady state only (the first high time after power-up is longer: the
     capacitor starts from 0 V, see :func:`pwmkit.timing.waveform`).
     Comparator and flip-flop delays, threshold bias currents and capacitor
@@ -367,6 +411,8 @@ def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
     with np.errstate(all="ignore"):
         (t_high,) = crossing_time(p.r_charge, q["c"], p.v_charge, v_lower, v_upper)
         (t_low,) = crossing_time(p.r_discharge, q["c"], p.v_discharge, v_upper, v_lower)
+        if topology == "bypass":  # the diode across rb may stop conducting inside the charge
+            t_high = np.asarray(_bypass_t_high(q, t_high), dtype=float)
     shape = np.broadcast_shapes(*(np.shape(v) for k, v in q.items() if k != "timer"))
     # t_high, t_low >= 0 by construction, so finite half-periods whose smallest sum is well above zero
     # make period, frequency and duty finite too (four reductions, no temporary arrays)
@@ -382,6 +428,9 @@ def _astable_core(topology: str, q: dict[str, Any]) -> AstableResult:
         v_charge=_readonly(p.v_charge, shape), v_discharge=_readonly(p.v_discharge, shape),
         r_charge=_readonly(p.r_charge, shape), r_discharge=_readonly(p.r_discharge, shape),
         c=_readonly(q["c"], shape), vcc=_readonly(q["vcc"], shape),
+        v_charge_change=None if topology != "bypass" else _readonly(
+            np.clip(_bypass_turn_off(q), v_lower, v_upper), shape),
+        r_charge_after=None if topology != "bypass" else _readonly(q["ra"] + q["rb"], shape),
     )
 
 

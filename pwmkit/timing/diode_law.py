@@ -156,7 +156,9 @@ def diode_law_timing(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: 
     -----
     The diode in the bypass topology is in parallel with ``rb`` during the
     charge (both carry current into the capacitor) and reverse-biased during
-    the discharge (its reverse leakage is neglected).
+    the discharge. A reverse-biased steering diode carries its Shockley reverse
+    current ``I_S·(1 − e^{−V_R/(n·V_T)})`` (tens of nA for small Schottky
+    diodes, which matters in megaohm networks).
 
     Examples
     --------
@@ -182,6 +184,17 @@ def diode_law_timing(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: 
     p0 = paths("classic", ra=ra_, rb=0.0, pot=0.0, wiper=0.0, vcc=vcc_, vd=0.0, vsat=q["vsat"], r_on=q["r_on"])
     v_th, r_th = p0.v_discharge, p0.r_discharge
 
+    from ..parts.diodes import thermal_voltage
+
+    i_s, n_vt = float(dio.saturation_current(t_c)), dio.n * float(thermal_voltage(t_c))
+
+    def leak(v_reverse: np.ndarray) -> np.ndarray:
+        """Reverse current of the off diode at its reverse voltage (Shockley law) [A]."""
+        return i_s * -np.expm1(-np.maximum(v_reverse, 0.0) / n_vt)
+
+    r_pa = w * pot_ if topology == "pot" else 0.0
+    r_pb = (1.0 - w) * pot_ if topology == "pot" else 0.0
+
     if topology == "classic":
         def i_charge(v: np.ndarray) -> np.ndarray:
             return (vcc_ - v) / (ra_ + rb_)
@@ -189,19 +202,45 @@ def diode_law_timing(topology: str, *, ra: Any, rb: Any, c: Any, vcc: Any, pot: 
         def i_charge(v: np.ndarray) -> np.ndarray:
             return _bypass_charge_current(dio, ra_, rb_, vcc_ - v, t_c)
     else:
-        r_ch = ra_ + (w * pot_ if topology == "pot" else 0.0)
 
         def i_charge(v: np.ndarray) -> np.ndarray:
-            return _series_diode_current(dio, r_ch, vcc_ - v, t_c)
+            # DIS at u: ra carries D1's current (through the pot's charge half) plus the reverse
+            # current of D2, which sees u − v (no drop in rb for a current of I_S)
+            def balance(u: np.ndarray) -> np.ndarray:
+                return (vcc_ - u) / ra_ - _series_diode_current(dio, r_pa, u - v, t_c) - leak(u - v)
+
+            u = _bisect(balance, np.asarray(v, dtype=float).copy(), np.full_like(v, vcc_), iterations=90)
+            return (vcc_ - u) / ra_
 
     if topology in ("classic", "bypass"):
         def i_discharge(v: np.ndarray) -> np.ndarray:
-            return (v - v_th) / (rb_ + r_th)
+            # bypass: the diode across rb is reverse-biased by v − u and leaks into DIS
+            if topology == "classic" or rb_ <= 0:  # no diode in the path, or rb shorts it
+                return (v - v_th) / (rb_ + r_th)
+            if r_th <= 0:
+                u = np.full_like(v, v_th)
+            else:
+                def balance(u: np.ndarray) -> np.ndarray:
+                    return (u - v_th) / r_th - (v - u) / rb_ - leak(v - u)
+
+                u = _bisect(lambda x: -balance(x), np.full_like(v, v_th), np.asarray(v, dtype=float).copy(),
+                            iterations=90)
+            return (v - u) / rb_ + leak(v - u)
     else:
-        r_dis = rb_ + ((1.0 - w) * pot_ if topology == "pot" else 0.0) + r_th
+        r_dis = rb_ + r_pb
 
         def i_discharge(v: np.ndarray) -> np.ndarray:
-            return _series_diode_current(dio, r_dis, v - v_th, t_c)
+            # DIS at u (the switch's Thevenin source v_th behind r_th): D2's current through rb and
+            # the pot's discharge half plus the reverse current of D1, which sees v − u
+            if r_th <= 0:
+                u = np.full_like(v, v_th)
+            else:
+                def balance(u: np.ndarray) -> np.ndarray:
+                    return (u - v_th) / r_th - _series_diode_current(dio, r_dis, v - u, t_c) - leak(v - u)
+
+                u = _bisect(lambda x: -balance(x), np.full_like(v, v_th), np.asarray(v, dtype=float).copy(),
+                            iterations=90)
+            return _series_diode_current(dio, r_dis, v - u, t_c) + leak(v - u)
 
     if not vcc_ > v_upper:
         raise DesignError(f"vcc: supply {vcc_:.4g} V cannot reach the upper threshold {v_upper:.4g} V")

@@ -70,7 +70,25 @@ def waveform(result: AstableResult, *, cycles: float = 2.0, points_per_cycle: in
     r = result
     tau_ch = r.r_charge * r.c
     tau_dis = r.r_discharge * r.c
-    t_first = tau_ch * float(np.log(r.v_charge / (r.v_charge - r.v_upper)))
+    # bypass: the diode across rb may stop conducting at v_x; the charge then heads for vcc via ra + rb
+    v_x = float(r.v_upper) if r.v_charge_change is None else float(r.v_charge_change)
+    tau_2 = tau_ch if r.r_charge_after is None else float(r.r_charge_after) * r.c
+
+    def charge(v0: float, tt: np.ndarray) -> np.ndarray:
+        """Capacitor voltage t after the charge started at v0 (two segments when the path changes)."""
+        if v0 >= v_x:  # already past the change: the second path only
+            return r.vcc + (v0 - r.vcc) * np.exp(-tt / tau_2)
+        t1 = tau_ch * float(np.log((r.v_charge - v0) / (r.v_charge - v_x))) if v_x < r.v_upper else np.inf
+        first_seg = r.v_charge + (v0 - r.v_charge) * np.exp(-np.minimum(tt, t1) / tau_ch)
+        if not np.isfinite(t1):
+            return first_seg
+        return np.where(tt < t1, first_seg, r.vcc + (v_x - r.vcc) * np.exp(-np.maximum(tt - t1, 0.0) / tau_2))
+
+    if v_x < r.v_upper:
+        t1 = tau_ch * float(np.log(r.v_charge / (r.v_charge - v_x))) if v_x > 0 else 0.0
+        t_first = t1 + tau_2 * float(np.log((r.vcc - max(v_x, 0.0)) / (r.vcc - r.v_upper)))
+    else:
+        t_first = tau_ch * float(np.log(r.v_charge / (r.v_charge - r.v_upper)))
     start = t_first if from_power_up else 0.0
     t_end = start + cycles * r.period
     t = np.linspace(0.0, t_end, int(np.ceil(points_per_cycle * (t_end / r.period))) + 1)
@@ -78,7 +96,7 @@ def waveform(result: AstableResult, *, cycles: float = 2.0, points_per_cycle: in
     high = np.empty(t.shape, dtype=bool)
     if from_power_up:
         first = t < t_first
-        v[first] = r.v_charge * (1.0 - np.exp(-t[first] / tau_ch))
+        v[first] = charge(0.0, t[first])
         high[first] = True
     else:
         first = np.zeros(t.shape, dtype=bool)
@@ -86,8 +104,8 @@ def waveform(result: AstableResult, *, cycles: float = 2.0, points_per_cycle: in
     charging = tt < r.t_high
     vc = np.where(
         charging,
-        r.v_charge + (r.v_lower - r.v_charge) * np.exp(-tt / tau_ch),
-        r.v_discharge + (r.v_upper - r.v_discharge) * np.exp(-(tt - r.t_high) / max(tau_dis, 1e-300)),
+        charge(float(r.v_lower), tt),
+        r.v_discharge + (r.v_upper - r.v_discharge) * np.exp(-np.maximum(tt - r.t_high, 0.0) / max(tau_dis, 1e-300)),
     )
     v[~first] = vc
     high[~first] = charging

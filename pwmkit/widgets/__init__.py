@@ -19,6 +19,8 @@ Each panel also works alone (give it a design) or together with others (give the
 - :class:`FindingsPanel` — design-rule checks with remedies;
 - :class:`FormulasPanel` — rendered formulas and copyable text;
 - :class:`SchematicPanel` — the circuit as SVG;
+- :class:`TwoTimerPanel`, :class:`ControlHeaterPanel` — the two-timer PWM (clock, monostable,
+  control range) and heater loads (element temperature, thermistor loop);
 - :class:`RequirementsPanel`, :class:`PartsPanel` — requirements and criterion; dielectric, tolerances, series;
 - :class:`CandidatesPanel` — ranked part sets for the requirements (non-blocking search), "use this set";
 - :class:`ConditionsPanel` — frequency and duty against supply and ambient;
@@ -57,6 +59,9 @@ _EXPORTS = {
     "FormulasPanel": "formulas",
     "SchematicPanel": "schematic",
     "ValueEntry": "entry",
+    "TwoTimerPanel": "two_timer",
+    "ControlHeaterPanel": "two_timer",
+    "TwoTimerCandidatesPanel": "two_timer",
     "AsBuiltPanel": "bench",
     "RequirementsPanel": "requirements",
     "PartsPanel": "requirements",

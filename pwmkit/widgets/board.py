@@ -29,6 +29,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
+from ..two_timer_design import circuit_words as _circuit_words
 from ._base import esc, log
 from .checks import CautionsBox, FindingsPanel
 from .formulas import FormulasPanel
@@ -84,7 +85,7 @@ def _header_html(design: Design, evaluation: Any, findings: Any = None) -> str:
     load = load if design.load is None else f"{load} load"
     return (f"<div class='pwmkit-header' style='display:flex;gap:4px 16px;align-items:baseline;flex-wrap:wrap'>"
             f"<span style='font-size:16px;font-weight:700'>{esc(design.name)}</span>"
-            f"<span style='color:#5a6270'>{esc(g.topology_label(design.timing.topology))} astable · "
+            f"<span style='color:#5a6270'>{esc(_circuit_words(design.timing.topology))} · "
             f"{esc(g.timer_label(design.timing.timer))} timer · {esc(screen(design.vcc, 'V'))} · {esc(load)}</span>"
             f"<span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
 
@@ -112,6 +113,8 @@ class Dashboard(w.VBox):
     timing : TimingPanel; waveforms : WaveformPanel; pot_travel : PotTravelPanel;
     spread : SpreadPanel; loads : LoadsPanel; flicker : FlickerPanel; findings : FindingsPanel;
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
+    control_heater : ControlHeaterPanel or None — two-timer designs and heater loads (first tab)
+    crosscheck : CrossCheckBox or None (None where ngspice is not installed)
     as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
     tabs : ipywidgets.Tab
     """
@@ -123,7 +126,13 @@ class Dashboard(w.VBox):
         s = self.session
         self.header = w.HTML()
         self.cautions = CautionsBox(s, collapsed=False)  # once per view, open on first display
-        self.timing = TimingPanel(s, show_readout=False)
+        two_timer = s.design.timing.topology == "two-timer"
+        if two_timer:  # the two-timer PWM has its own editor (clock, monostable, control range)
+            from .two_timer import TwoTimerPanel
+
+            self.timing = TwoTimerPanel(s)  # type: ignore[assignment]
+        else:
+            self.timing = TimingPanel(s, show_readout=False)
         self.waveforms = WaveformPanel(s, show_cautions=False)
         self.pot_travel = PotTravelPanel(s)
         self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
@@ -141,29 +150,46 @@ class Dashboard(w.VBox):
             ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
             ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
         ]
+        self.control_heater = None
+        if two_timer or (s.design.load is not None and s.design.load.kind == "heater"):
+            from .two_timer import ControlHeaterPanel
+
+            self.control_heater = ControlHeaterPanel(s)
+            pages.insert(0, ("Control & heater", self.control_heater))
+        if two_timer:  # no potentiometer in the two-timer PWM
+            pages = [(t, p) for t, p in pages if p is not self.pot_travel]
         if self.schematic is not None:
             pages.append(("Schematic", self.schematic))
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
-        pages = pages + own
         self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
+        if two_timer:  # the part search knows the astable networks; the two-timer has its own
+            from .two_timer import TwoTimerCandidatesPanel
+
+            self.candidates = TwoTimerCandidatesPanel(s)  # type: ignore[assignment]
+            own = [(t, self.candidates if t == "Candidates" else p) for t, p in own]
+        pages = pages + own
         if self.as_built is not None:
             pages.append(("As built", self.as_built))
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
-        self.timing.layout.width = "440px"
-        self.timing.layout.min_width = "440px"
+        self.timing.layout.width = "440px" if not two_timer else "560px"
+        self.timing.layout.min_width = self.timing.layout.width
         # the main readout sits with the waveforms; controls beside them when the width allows,
         # else the readout and the waveforms come first (wrap-reverse) so both stay in view
-        views = w.VBox([self.timing.readout, self.requirement_band, self.waveforms])
+        readout = [] if two_timer else [self.timing.readout]
+        views = w.VBox([*readout, self.requirement_band, self.waveforms])
         views.add_class("pwmkit-views")
         top = w.HBox([self.timing, views],
                      layout=w.Layout(flex_flow="row wrap-reverse", justify_content="flex-start",
                                      align_items="flex-end"))
         top.add_class("pwmkit-main")
+        from .crosscheck import crosscheck_box
         from .downloads import DownloadsBar
 
+        self.crosscheck = crosscheck_box(s)  # only where ngspice is installed
+        extra = [self.crosscheck] if self.crosscheck is not None else []
         self.downloads = DownloadsBar(s)
         super().__init__([w.HTML(DASHBOARD_CSS), self.file, self.header, self.cautions, top, self.tabs,
-                          self.downloads])
+                          *extra, self.downloads])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")

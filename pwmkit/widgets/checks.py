@@ -7,6 +7,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
+from ..origins import origin_text
 from ._base import Panel, esc, safe_callback
 from .session import DesignSession, as_session
 
@@ -64,7 +65,7 @@ def findings_html(findings: Any, *, show_ok: bool = True) -> str:
             f"<b style='flex:1 1 auto'>{esc(f.title)}</b>"
             f"<span class='pwmkit-q' style='white-space:nowrap'>{numbers}</span></div>"
             f"<div>{esc(f.explanation)}</div>{remedy}"
-            f"<div style='font-size:11px;color:#5a6270'>{esc(g.SOURCE)}: {esc(g.source_label(f.origin))} · "
+            f"<div style='font-size:11px;color:#5a6270'>{esc(g.SOURCE)}: {esc(origin_text(f.origin))} · "
             f"rule <code style='font-size:11px'>{esc(f.id)}</code></div></div>"
         )
     if not cards:

@@ -220,7 +220,11 @@ class LoadsPanel(Panel):
             self.motor_box.layout.display = None
         else:
             self.motor_box.layout.display = "none"
-        if ev.led is None and ev.motor is None:
+        if getattr(ev, "heater", None) is not None:
+            from .two_timer import heater_html
+
+            self.load_html.value = heater_html(ev)
+        elif ev.led is None and ev.motor is None:
             why = "" if cond.gate_error is None else f" ({esc(cond.gate_error)})"
             self.load_html.value = ("<i>No load figures: the design has no load</i>" if self.session.design.load is None
                                     else f"<i>No load figures{why}</i>")

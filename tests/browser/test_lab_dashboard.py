@@ -179,3 +179,23 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     expect(dash.locator(".pwmkit-schematic-svg")).not_to_contain_text(label, timeout=20_000)
     dash.locator(".pwmkit-schematic-svg").first.screenshot(path=str(artifacts / "lab_schematic.png"))
     page.screenshot(path=str(artifacts / "lab_dashboard_final.png"), full_page=False)
+
+    # 5 — the heat-mat section: two-timer editor and the control/heater plots (section 8)
+    heat_marker = page.locator(".jp-OutputArea-output", has_text="PWMKIT-HEAT-MAT-OK")
+    heat_marker.first.wait_for(state="attached", timeout=120_000)
+    panel = page.locator(".pwmkit-control-heater").first
+    panel.scroll_into_view_if_needed()
+    expect(panel.locator(".pwmkit-plot-control canvas").first).to_be_visible(timeout=30_000)
+    expect(panel.locator(".pwmkit-plot-heater canvas").first).to_be_visible(timeout=30_000)
+    read = READ_SOURCE.replace('".pwmkit-dashboard"', '".pwmkit-control-heater"')
+    duty_0 = page.wait_for_function(f"() => ({read})(['pwmkit-control', 'duty'])", timeout=30_000).json_value()
+    assert duty_0 and len(duty_0) == 201
+    r_field = page.locator(".pwmkit-two-timer .pwmkit-entry-r_mono input").first
+    r_field.scroll_into_view_if_needed()
+    r_field.fill("33k")
+    r_field.press("Enter")
+    page.wait_for_function(
+        f"(old) => {{ const d = ({read})(['pwmkit-control', 'duty']); return d !== null && d[100] > old[100]; }}",
+        arg=duty_0, timeout=20_000)
+    expect(page.locator(".pwmkit-two-timer .pwmkit-two-timer-box").first).to_contain_text("Two-timer PWM")
+    panel.screenshot(path=str(artifacts / "lab_heat_mat_plots.png"))

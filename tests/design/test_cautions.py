@@ -38,7 +38,7 @@ def test_general_cautions_always_present(design, with_evaluation: bool) -> None:
 def test_motor_gets_inductive_kick_with_computed_drain_voltage() -> None:
     ev = evaluate(FAN, spread=False)
     kick = {c.id: c for c in ev.cautions}["inductive-kick"]
-    # drain peak = highest load supply + clamp voltage (REFERENCES §8.3), here 13.8 V + ≈ 0.27 V
+    # drain peak = highest load supply + clamp voltage (first-order RL decay: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7), here 13.8 V + ≈ 0.27 V
     v_peak = ev.conditions.load_supply_max + ev.conditions.v_clamp
     assert f"{v_peak:.3g} V" in kick.text
     assert "freewheel diode" in kick.text and "must be fitted" in kick.text

@@ -6,7 +6,7 @@ Sources named beside each check:
   pwmkit's chain rule for t_high/t_low);
 - RC-timing facts of the trade (common practice): f ∝ 1/((RA + 2RB)·C) for the ideal classic astable, so
   ∂ln f/∂ln C = −1 and ∂ln f/∂ln RA + ∂ln f/∂ln RB = −1;
-- REFERENCES.md §1.9 check values marked [C] (recomputed here from the sensitivities);
+- first-order sensitivity of T = R·C·ln(…), common practice check values marked (regression pin) (recomputed here from the sensitivities);
 - JCGM 100:2008 (GUM) §4.3.7 (rectangular distribution u = a/√3) and §5.1.2 (law of propagation).
 """
 
@@ -89,13 +89,13 @@ def test_classic_ideal_analytic_limits_common_practice() -> None:
     assert s.row("ra").s_frequency == pytest.approx(-ra / (ra + 2 * rb), rel=1e-12)
     # D = (RA+RB)/(RA+2RB) (common practice) differentiated by hand: ∂D/∂RA = RB/(RA+2RB)²
     assert s.row("ra").d_duty == pytest.approx(rb / (ra + 2 * rb) ** 2, rel=1e-10)
-    # ideal timing does not depend on the supply (ratio-metric thresholds, REFERENCES §1.2)
+    # ideal timing does not depend on the supply (ratio-metric thresholds, 555-type timer data sheets, typical published datasheet value, generic)
     assert s.row("vcc").s_frequency == pytest.approx(0.0, abs=1e-12)
     assert abs(s.row("c").duty_per_relative) < 1e-12
 
 
 def test_refs_1_9_worst_case_and_rss_example() -> None:
-    # REFERENCES.md §1.9 [C]: R ±1 %, C ±10 %, timer ±2.25 % → worst case ±13.25 %, RSS ±10.30 %
+    # first-order sensitivity of T = R·C·ln(…), common practice (regression pin): R ±1 %, C ±10 %, timer ±2.25 % → worst case ±13.25 %, RSS ±10.30 %
     tol = {"ra": 0.01, "rb": 0.01, "c": 0.10}
     s = sensitivities("classic", ra=10e3, rb=10e3, c=100e-9, vcc=12, vsat=0, r_on=0, tolerances=tol,
                       timer_accuracy=0.0225)
@@ -111,7 +111,7 @@ def test_refs_1_9_worst_case_and_rss_example() -> None:
 
 
 def test_refs_1_9_diode_drop_sensitivity() -> None:
-    # REFERENCES.md §1.9 [C]: one-diode circuit of §1.4: ∂t_H/∂Vd = 0.16245 ms/V → −413 ppm/K at −2 mV/K
+    # first-order sensitivity of T = R·C·ln(…), common practice (regression pin): one-diode circuit of §1.4: ∂t_H/∂Vd = 0.16245 ms/V → −413 ppm/K at −2 mV/K
     s = sensitivities("bypass", ra=10e3, rb=10e3, c=100e-9, vcc=12, vd=0.65, vsat=0.1)
     r, f, d = s.row("vd"), s.frequency, s.duty
     dth = (r.d_duty * f - d * r.d_frequency) / f**2          # t_high = D/f

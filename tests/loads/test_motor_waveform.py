@@ -12,7 +12,7 @@ from pwmkit.loads.motor_waveform import current_waveform
 
 @pytest.mark.parametrize("f,duty", [(20e3, 0.7), (500.0, 0.6), (2e3, 0.1)])
 def test_sampled_waveform_mean_and_rms_match_closed_forms(f: float, duty: float) -> None:
-    # REFERENCES §6.2/§6.3 cases (12 V, 6 V back-EMF, 1.5 Ω, 1 mH): the trapezoid integral of the
+    # Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 7, from memory cases (12 V, 6 V back-EMF, 1.5 Ω, 1 mH): the trapezoid integral of the
     # sampled exact segments must reproduce the closed-form mean and RMS
     mc = motor_current(12.0, 6.0, 1.5, 1e-3, duty, f)
     w = current_waveform(mc, duty / f, 1 / f, cycles=1, points_per_cycle=40_000)

@@ -15,6 +15,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 from scipy.optimize import brentq
 
 from pwmkit.errors import DesignError
@@ -113,6 +114,7 @@ def test_thermal_path_series_sum():
         ThermalPath(r_theta_jc=1.0)
 
 
+@reaching()
 @settings(max_examples=80, deadline=None)
 @given(p0=st.floats(0.0, 1e3), k=st.floats(-0.01, 0.2), rth=st.floats(0.0, 1e3), ta=st.floats(-60.0, 150.0))
 def test_property_finite_or_runaway(p0, k, rth, ta):
@@ -124,6 +126,7 @@ def test_property_finite_or_runaway(p0, k, rth, ta):
         res = junction_temperature(power, rth, ta)
     except DesignError:
         return
+    reached()
     if res.runaway:
         assert res.tj_c is None
     else:

@@ -76,6 +76,7 @@ def test_notebook_executes_cleanly(path, tmp_path):
     if path.name == "greenhouse_design.ipynb":
         printed = "".join(out.get("text", "") for _i, out in _outputs(nb) if out.output_type == "stream")
         assert "PWMKIT-NOTEBOOK-OK" in printed
+        assert "PWMKIT-HEAT-MAT-OK" in printed  # the heat-mat section's own self-check
 
 
 @pytest.mark.notebook

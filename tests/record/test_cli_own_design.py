@@ -18,6 +18,7 @@ from pathlib import Path
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reach import mostly, reached, reaching
 
 from pwmkit import DesignError, eseries
 from pwmkit.cli import main
@@ -85,14 +86,20 @@ def test_new_bad_load_options_exit_2_before_searching(tmp_path: Path, capsys: py
     assert not list(tmp_path.iterdir())
 
 
+_ranges = st.one_of(st.builds(lambda a, b: f"{a}..{b}%", st.integers(1, 49), st.integers(50, 99)),
+                    st.builds(lambda a: f"{a}%", st.integers(1, 99)))
+
+
+@reaching()
 @settings(max_examples=60, deadline=None)
-@given(text=st.text(max_size=24))
+@given(text=mostly(_ranges, st.text(max_size=24)))
 def test_parse_range_gives_numbers_or_a_design_error(text: str) -> None:
     try:
         lo, hi = parse_range(text, "--duty", "%")
     except DesignError as exc:
         assert "--duty" in str(exc)
     else:
+        reached()
         assert math.isfinite(lo) and (hi is None or (math.isfinite(hi) and lo < hi))
 
 

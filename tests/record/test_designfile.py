@@ -11,6 +11,7 @@ from pathlib import Path
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import DesignError
 from pwmkit.design import Design, Freewheel, LedLoad, MotorLoad, Requirements, Switch, Timing, demo_designs
@@ -26,14 +27,15 @@ else:  # pragma: no cover
     import tomli as tomllib
 
 ROOT = Path(__file__).resolve().parents[2]
-EXAMPLES = {"grow-bar": ROOT / "examples" / "greenhouse-grow-bar.toml", "fan": ROOT / "examples" / "greenhouse-fan.toml"}
+EXAMPLES = {"grow-bar": ROOT / "examples" / "greenhouse-grow-bar.toml", "fan": ROOT / "examples" / "greenhouse-fan.toml",
+            "heat-mat": ROOT / "examples" / "greenhouse-heat-mat.toml"}
 HEAD = 'format = "pwmkit-design"\nversion = 1\n'
 
 
 # ------------------------------------------------------------------------------------------------
 # round trips
 # ------------------------------------------------------------------------------------------------
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_demo_designs_round_trip_through_text_and_file(name: str, tmp_path: Path) -> None:
     design = demo_designs()[name]
     assert design_from_toml(design_to_toml(design)) == design
@@ -41,7 +43,7 @@ def test_demo_designs_round_trip_through_text_and_file(name: str, tmp_path: Path
     assert load_design(path) == design
 
 
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_example_files_hold_the_demo_designs(name: str) -> None:
     # the shipped examples must stay in step with pwmkit.design.demo_designs()
     assert load_design(EXAMPLES[name]) == demo_designs()[name]
@@ -52,7 +54,7 @@ def _without_none(d: dict) -> dict:
     return {k: (_without_none(v) if isinstance(v, dict) else v) for k, v in d.items() if v is not None}
 
 
-@pytest.mark.parametrize("name", ["grow-bar", "fan"])
+@pytest.mark.parametrize("name", ["grow-bar", "fan", "heat-mat"])
 def test_emitted_toml_reads_back_with_the_standard_library_parser(name: str) -> None:
     # independent reader: Python's tomllib sees exactly the design's fields (TOML v1.0.0 syntax)
     design = demo_designs()[name]
@@ -124,9 +126,11 @@ def designs(draw: st.DrawFn) -> Design:
     )
 
 
+@reaching()
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(designs())
 def test_random_designs_round_trip_without_loss(design: Design) -> None:
+    reached()  # no early return: every example reaches the assertions
     text = design_to_toml(design)
     back = design_from_toml(text)
     assert back == design
@@ -135,9 +139,11 @@ def test_random_designs_round_trip_without_loss(design: Design) -> None:
 
 
 def test_random_design_file_round_trip_on_disk(tmp_path: Path) -> None:
+    @reaching()
     @settings(max_examples=10, deadline=None)
     @given(designs())
     def check(design: Design) -> None:
+        reached()  # no early return: every example reaches the assertions
         path = save_design(design, tmp_path / "d.toml", force=True)
         assert load_design(path) == design
 
@@ -206,7 +212,7 @@ def test_control_and_bidi_characters_are_refused_in_names(name: str) -> None:
     ('[load]\nkind = "led"\nn_series = "3"', r"load\.n_series: expected a whole number"),
     ('[load]\nkind = "led"\nvf = 99', r"load\.vf: 99 V is out of range; allowed load\.vf <= 10 V"),
     ('[load]\nkind = "led"\ncolour = "octarine"', r"load\.colour: 'octarine' is not a known LED colour"),
-    ('[load]\nkind = "heater"', r"load\.kind: 'heater' is not allowed; allowed: led, motor"),
+    ('[load]\nkind = "valve"', r"load\.kind: 'valve' is not allowed; allowed: led, motor, heater"),
     ("[load]\nr = 2", r"load\.kind: missing"),
     ('[load]\nkind = "motor"\nn_series = 3', r"load\.n_series: unknown key; known keys in \[load\]: kind, r, l"),
     ('[switch]\nmosfet = "unobtainium"', r"switch\.mosfet: 'unobtainium' is not a known MOSFET family; allowed:"),

