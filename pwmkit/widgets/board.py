@@ -97,6 +97,7 @@ DASHBOARD_CSS = """<style>
 .pwmkit-dashboard .pwmkit-views {min-width:0}
 .pwmkit-downloads .widget-hbox {gap:4px 12px}
 .pwmkit-dashboard .widget-toggle-buttons {flex-wrap:wrap; max-width:100%; height:auto}
+.pwmkit-dashboard button.jupyter-button {width:auto; max-width:100%}
 .pwmkit-dashboard .widget-toggle-buttons .widget-toggle-button {margin-bottom:2px}
 .pwmkit-dashboard .widget-html-content, .pwmkit-dashboard .widget-htmlmath-content {white-space:normal}
 </style>"""
