@@ -176,8 +176,8 @@ def cautions_for(design: Any, evaluation: Any = None) -> tuple[Caution, ...]:
         peak = ""
         if ev is not None and ev.conditions.v_clamp is not None:
             v_peak = ev.conditions.load_supply_max + ev.conditions.v_clamp
-            peak = (f" Here the drain rises to about {v_peak:.3g} V at every turn-off (supply plus clamp), before "
-                    "wiring ringing.")
+            peak = (f" Here the drain rises to about {v_peak:.3g} V at every turn-off at the highest load supply "
+                    f"{ev.conditions.load_supply_max:.3g} V (supply plus clamp), before wiring ringing.")
         clamp = ("The Zener clamp ends the current faster but raises the drain voltage. "
                  if design.freewheel.clamp == "zener" else "")
         out.append(Caution("inductive-kick", "Inductive kick",

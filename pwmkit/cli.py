@@ -75,6 +75,8 @@ def _progress(text: str) -> None:
 # ------------------------------------------------------------------------------------------------
 def _demo(args: argparse.Namespace) -> int:
     from .design import demo_designs
+    from .glossary import ESTIMATE, EXACT, timer_label, topology_label
+    from .numstyle import screen
     from .timing import astable_ideal
     from .values import format_value
 
@@ -94,20 +96,23 @@ def _demo(args: argparse.Namespace) -> int:
         ideal = astable_ideal(t.topology, **kw)
         parts = f"ra {format_value(t.ra, 'Ω')}, rb {format_value(t.rb, 'Ω')}, c {format_value(t.c, 'F')}"
         if t.topology == "pot":
-            parts += f", pot {format_value(t.pot, 'Ω')} at wiper {t.wiper:.2f}"
-        print(f"[{name}] {t.topology} topology, {t.timer} timer, vcc {format_value(d.vcc, 'V')}: {parts}")
-        print(f"  {'':14}{'exact':>14}{'0.693 estimate':>18}{'difference':>12}")
+            parts += f", pot {format_value(t.pot, 'Ω')} at wiper {screen(t.wiper, 'wiper')}"
+        print(f"[{name}] {topology_label(t.topology)} topology, {timer_label(t.timer)} timer, "
+              f"supply {format_value(d.vcc, 'V')}: {parts}")
+        print(f"  {'':14}{EXACT:>14}{ESTIMATE:>18}{'difference':>12}")
         rows = [
             ("t_high", exact.t_high, ideal.t_high, "s"),
             ("t_low", exact.t_low, ideal.t_low, "s"),
             ("frequency", exact.frequency, ideal.frequency, "Hz"),
         ]
         for label, a, b, unit in rows:
-            print(f"  {label:14}{format_value(a, unit, 5):>14}{format_value(b, unit, 5):>18}{100 * (a / b - 1):>+11.2f}%")
-        print(f"  {'duty':14}{100 * exact.duty:>12.2f} %{100 * ideal.duty:>16.2f} %"
-              f"{100 * (exact.duty - ideal.duty):>+10.2f} pt\n")
-    print("Exact = sympy-derived closed form with the steering-diode drop, the discharge switch and the\n"
-          "control pin; estimate = the textbook 0.693·R·C forms. Verify every design on the bench.")
+            print(f"  {label:14}{screen(a, unit):>14}{screen(b, unit):>18}{screen(a / b - 1, 'relative'):>12}")
+        print(f"  {'duty':14}{screen(exact.duty, 'duty'):>14}{screen(ideal.duty, 'duty'):>18}"
+              f"{screen(exact.duty - ideal.duty, 'points'):>12}\n")
+    from .glossary import ESTIMATE_NOTE, EXACT_NOTE, POINTS, POINTS_LONG
+
+    print(f"{EXACT}: {EXACT_NOTE};\n{ESTIMATE}: {ESTIMATE_NOTE}.\nDuty differences in {POINTS_LONG} ({POINTS}). "
+          "Verify every design on the bench.")
     return 0
 
 
@@ -123,10 +128,12 @@ def findings_table(findings: Any, width: int | None = None) -> str:
 
     order = {"fail": 0, "warn": 1, "ok": 2}
     items = sorted(findings, key=lambda f: order.get(f.severity, 3))
+    from .glossary import bound_word
+
     rows = [(_SEVERITY_WORD.get(f.severity, f.severity), f.id, _finding_number(f.value, f.unit),
-             _finding_number(f.limit, f.unit), f.explanation + (f" Remedy: {f.remedy}" if f.remedy and
-                                                                 f.severity != "ok" else "")) for f in items]
-    head = ("severity", "rule", "value", "limit", "explanation")
+             "—" if f.limit is None else f"{bound_word(f.id)} {_finding_number(f.limit, f.unit)}",
+             f.explanation + (f" Remedy: {f.remedy}" if f.remedy and f.severity != "ok" else "")) for f in items]
+    head = ("severity", "rule", "value", "compared with", "explanation")
     widths = [max(len(r[i]) for r in [head, *rows]) for i in range(4)]
     total = width or shutil.get_terminal_size((110, 24)).columns
     indent = sum(widths) + 2 * 4 + 2
@@ -145,7 +152,6 @@ def findings_table(findings: Any, width: int | None = None) -> str:
 def _check(args: argparse.Namespace) -> int:
     from .evaluate import evaluate
     from .record.designfile import load_design
-    from .values import format_value
 
     code = 0
     report: list[dict[str, Any]] = []
@@ -170,9 +176,13 @@ def _check(args: argparse.Namespace) -> int:
                            "key_results": ev.key_results(), "findings": fs.as_rows()})
             continue
         t = ev.timing
-        print(f"{_terminal_safe(name)} — {design.name}: {design.timing.topology} topology, {format_value(float(t.frequency), 'Hz', 4)}, "
-              f"duty {100 * float(t.duty):.3g} %; {fs.fail_count} fail, {fs.warn_count} warn, {fs.ok_count} ok"
-              + (f", {fs.not_run_count} not run (--quick)" if fs.not_run_count else ""))
+        from .glossary import plural, severity_count, topology_label
+        from .numstyle import screen
+
+        print(f"{_terminal_safe(name)} — {design.name}: {topology_label(design.timing.topology)} topology, "
+              f"{screen(t.frequency, 'Hz')}, duty {screen(t.duty, 'duty')}; {severity_count('fail', fs.fail_count)}, "
+              f"{severity_count('warn', fs.warn_count)}, {severity_count('ok', fs.ok_count)}"
+              + (f", {plural(fs.not_run_count, 'check')} not run (--quick)" if fs.not_run_count else ""))
         shown = [f for f in fs if f.severity != "ok"] if args.brief else list(fs)
         if shown:
             print(findings_table(shown))
@@ -263,7 +273,7 @@ def _export(args: argparse.Namespace) -> int:
         else:
             from .record.report import write_report
 
-            write_report(design, target, evaluation=evaluation, force=args.force)
+            write_report(design, target, evaluation=evaluation, force=args.force, source=args.design)
         print(target)
     return 0
 

@@ -510,6 +510,7 @@ class Design:
     t_ambient_c : nominal ambient [°C]; t_ambient_min_c, t_ambient_max_c : range [°C]
     requirements : Requirements
     notes : free text for the design record
+    revision : revision note for the design record, e.g. "rev B: R2 4k7 → 3k9 after the bench test"
     bench : bench readings of the built driver, tuple of :class:`pwmkit.bench.BenchReading`
         (``[[bench]]`` in the design file; compared with the design by :func:`pwmkit.bench.reconcile`)
     """
@@ -528,6 +529,7 @@ class Design:
     t_ambient_max_c: Any = 40.0
     requirements: Requirements = field(default_factory=Requirements)
     notes: str = ""
+    revision: str = ""
     bench: tuple[Any, ...] = ()
 
     def __post_init__(self) -> None:
@@ -564,6 +566,9 @@ class Design:
                               f"use topology 'two-timer' (topology is {self.timing.topology!r})")
         if not isinstance(self.notes, str):
             raise DesignError("design.notes: expected text")
+        if not isinstance(self.revision, str) or len(self.revision) > 2000:
+            raise DesignError(f"design.revision: {self.revision!r:.60} is not allowed; give text of at most "
+                              "2000 characters")
         self._check_bench()
 
     def _check_bench(self) -> None:
@@ -704,6 +709,7 @@ def demo_designs() -> dict[str, Design]:
         requirements=Requirements(frequency=6e3, frequency_tolerance=0.3, duty_min=0.05, duty_max=0.95,
                                   flicker="no-effect", criterion="worst-case"),
         notes="LED grow-bar dimmer for a 12 V greenhouse propagator (demo values).",
+        revision="rev A: first demo build (demo values)",
     )
     fan = Design(
         name="fan",
@@ -721,6 +727,7 @@ def demo_designs() -> dict[str, Design]:
         requirements=Requirements(frequency=31e3, frequency_tolerance=0.35, duty_min=0.2, duty_max=0.9,
                                   criterion="worst-case"),
         notes="Ventilation-fan speed control for the same propagator (demo values).",
+        revision="rev A: first demo build (demo values)",
     )
     mat = Design(
         name="heat-mat",

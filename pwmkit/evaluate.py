@@ -802,6 +802,7 @@ def _table(title: str, header: tuple[str, ...], rows: list[tuple[str, ...]]) -> 
 
 
 def _timing_rows(ev: Evaluation) -> list[tuple[str, ...]]:
+    from .numstyle import screen
     from .values import format_value as fv
 
     t, i = ev.timing, ev.ideal
@@ -809,10 +810,10 @@ def _timing_rows(ev: Evaluation) -> list[tuple[str, ...]]:
     for label, k, unit in (("frequency", "frequency", "Hz"), ("t_high (charge)", "t_high", "s"),
                            ("t_low (discharge)", "t_low", "s")):
         x, y = float(getattr(t, k)), None if i is None else float(getattr(i, k))
-        rows.append((label, fv(x, unit, 5), "—" if y is None else fv(y, unit, 5),
-                     f"{100 * (x / y - 1):+.2f} %" if y else ""))
-    rows.insert(1, ("duty", f"{100 * t.duty:.3f} %", "—" if i is None else f"{100 * i.duty:.3f} %",
-                    "" if i is None else f"{100 * (t.duty - i.duty):+.3f} pt"))
+        rows.append((label, screen(x, unit), "—" if y is None else screen(y, unit),
+                     screen(x / y - 1, "relative") if y else ""))
+    rows.insert(1, ("duty", screen(t.duty, "duty"), "—" if i is None else screen(i.duty, "duty"),
+                    "" if i is None else screen(t.duty - i.duty, "points")))
     if ev.pot_travel is not None:
         (d0, d1), (f0, f1) = ev.pot_travel.duty_range, ev.pot_travel.frequency_range
         rows.append(("over the pot travel", f"{100 * d0:.3g} … {100 * d1:.4g} %; {fv(f0, 'Hz', 4)} … {fv(f1, 'Hz', 4)}",
@@ -893,7 +894,9 @@ def _evaluation_html(ev: Evaluation) -> str:
             f"<div>{html.escape(_circuit_words(d.timing.topology))}, {html.escape(d.timing.timer)} timer, supply "
             f"{html.escape(fv(c.vcc, 'V', 3))} ({html.escape(fv(c.vcc_min, 'V', 3))} … {html.escape(fv(c.vcc_max, 'V', 3))}), "
             f"{html.escape(load)}{' — quick mode, no tolerance analysis' if c.quick else ''}</div><div>{verdict}</div>")
-    timing = _table("Timing", ("", "exact", "textbook ln 2", "difference"), _timing_rows(ev))
+    from .glossary import DIFFERENCE, ESTIMATE, EXACT
+
+    timing = _table("Timing", ("", EXACT, ESTIMATE, DIFFERENCE), _timing_rows(ev))
     stage = _table("Output stage and load", ("", "value"), _load_rows(ev))
     cautions = "".join(f"<li><b>{html.escape(x.title)}.</b> {html.escape(x.text)}</li>" for x in ev.cautions)
     return (f"<div class='pwmkit-evaluation' style=\"{_CSS}\">{head}{timing}{stage}{ev.findings.to_html(compact=True)}"

@@ -160,17 +160,21 @@ class SpreadResult:
                 f"{self.frequency_std:.3g} Hz, duty = {100 * self.duty_mean:.3f} ± {100 * self.duty_std:.3g} %{y})")
 
     def _repr_html_(self) -> str:
+        from .glossary import plural
+        from .numstyle import screen
+
         p = self.percentile(np.array([0.135, 50.0, 99.865]))
         rows = [
-            ("samples", f"{self.n}" + (f" ({self.n_failed} do not oscillate)" if self.n_failed else "")),
-            ("nominal", f"{self.nominal_frequency:.6g} Hz, {100 * self.nominal_duty:.3f} %"),
-            ("frequency mean ± σ", f"{self.frequency_mean:.6g} ± {self.frequency_std:.4g} Hz"),
-            ("frequency 0.135 / 50 / 99.865 %", " / ".join(f"{x:.6g}" for x in p.frequency) + " Hz"),
-            ("duty mean ± σ", f"{100 * self.duty_mean:.4f} ± {100 * self.duty_std:.4g} %"),
-            ("duty 0.135 / 50 / 99.865 %", " / ".join(f"{100 * x:.4f}" for x in p.duty) + " %"),
+            ("samples", screen(self.n, "count") + (f" ({plural(self.n_failed, 'sample')} do not oscillate)"
+                                                   if self.n_failed else "")),
+            ("nominal", f"{screen(self.nominal_frequency, 'Hz')}, {screen(self.nominal_duty, 'duty')}"),
+            ("frequency mean ± σ", f"{screen(self.frequency_mean, 'Hz')} ± {screen(self.frequency_std, 'Hz', 3)}"),
+            ("frequency 0.135 / 50 / 99.865 %", " / ".join(screen(x, "Hz") for x in p.frequency)),
+            ("duty mean ± σ", f"{screen(self.duty_mean, 'duty')} ± {screen(self.duty_std, 'points').lstrip('+')}"),
+            ("duty 0.135 / 50 / 99.865 %", " / ".join(screen(x, "duty") for x in p.duty)),
         ]
         if self.yield_ is not None:
-            rows.append(("yield", f"{100 * self.yield_:.3f} %"))
+            rows.append(("yield", screen(self.yield_, "duty")))
         rows += [("spread", s) for s in self.sources]
         body = "".join(f"<tr><th style='text-align:left'>{a}</th><td>{b}</td></tr>" for a, b in rows)
         return f"<table class='pwmkit-result'><caption>Monte Carlo spread — {self.topology}</caption>{body}</table>"
@@ -362,18 +366,28 @@ class WorstCaseResult:
                 f"{100 * self.duty_max:.4f} %)")
 
     def _repr_html_(self) -> str:
+        from .numstyle import screen
+
+        def deviation(label: str, v: float) -> str:
+            # supply and ambient are absolute values; every other dimension is a relative deviation
+            if label == "vcc":
+                return f"supply {screen(v, 'V')}"
+            if label == "ambient":
+                return f"ambient {screen(v, '°C')}"
+            return f"{label} {screen(v, 'relative')}"
+
         def at(p: ExtremePoint) -> str:
-            where = ", ".join(f"{k} {v:+.4g}" for k, v in p.deviations.items())
+            where = ", ".join(deviation(k, v) for k, v in p.deviations.items())
             return ("corner: " if p.corner else "interior: ") + where
 
         rows = [
-            ("nominal", f"{self.frequency_nominal:.6g} Hz, {100 * self.duty_nominal:.4f} %", ""),
-            ("frequency min", f"{self.frequency_min:.6g} Hz ({100 * self.frequency_rel_low:+.3f} %)",
+            ("nominal", f"{screen(self.frequency_nominal, 'Hz')}, {screen(self.duty_nominal, 'duty')}", ""),
+            ("frequency min", f"{screen(self.frequency_min, 'Hz')} ({screen(self.frequency_rel_low, 'relative')})",
              at(self.frequency_min_at)),
-            ("frequency max", f"{self.frequency_max:.6g} Hz ({100 * self.frequency_rel_high:+.3f} %)",
+            ("frequency max", f"{screen(self.frequency_max, 'Hz')} ({screen(self.frequency_rel_high, 'relative')})",
              at(self.frequency_max_at)),
-            ("duty min", f"{100 * self.duty_min:.4f} %", at(self.duty_min_at)),
-            ("duty max", f"{100 * self.duty_max:.4f} %", at(self.duty_max_at)),
+            ("duty min", screen(self.duty_min, "duty"), at(self.duty_min_at)),
+            ("duty max", screen(self.duty_max, "duty"), at(self.duty_max_at)),
             ("method", f"{self.method} ({self.n_evaluated} points)", "; ".join(self.non_monotonic)),
         ]
         body = "".join(f"<tr><th style='text-align:left'>{a}</th><td>{b}</td><td>{c}</td></tr>" for a, b, c in rows)

@@ -85,7 +85,9 @@ def supply_timer_range(design: Any, ev: Any) -> Any:
     """
     fam = get_timer(design.timing.timer)
     lo, hi = design.supply_range
-    title = f"Supply inside the {fam.name} timer's range"
+    from ..glossary import timer_label
+
+    title = f"Supply inside the {timer_label(fam.name)} timer's range"
     span = f"{fmt(fam.vcc_min, 'V')} … {fmt(fam.vcc_max, 'V')}"
     if lo < fam.vcc_min:
         return finding("supply.timer_range", "fail", title, lo, fam.vcc_min, "V",

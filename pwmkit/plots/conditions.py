@@ -32,6 +32,7 @@ class ConditionsPlot:
         self.sources: dict[str, Any] = {}
         self.figures: dict[tuple[str, str], Any] = {}
         self.windows: dict[tuple[str, str], Any] = {}
+        self._window_legend: dict[tuple[str, str], Any] = {}
         for cond, label in (("supply", "supply [V]"), ("ambient", "ambient [°C]")):
             src = ColumnDataSource(data={k: [] for k in cols}, name=f"pwmkit-conditions-{cond}")
             self.sources[cond] = src
@@ -43,9 +44,14 @@ class ConditionsPlot:
                 box = BoxAnnotation(fill_color=TRACE["window"], fill_alpha=0.08, line_color=TRACE["window"],
                                     line_width=1.5, visible=False)
                 fig.add_layout(box)
+                # an annotation has no legend entry: an empty box in its style names it (shown with it)
+                proxy = fig.quad(left=[np.nan], right=[np.nan], bottom=[np.nan], top=[np.nan], fill_color=TRACE["window"], fill_alpha=0.3,
+                                   line_color=TRACE["window"], line_width=1.5, legend_label="requirement window",
+                                   visible=False)
                 style_legend(fig, "top_left")
                 self.figures[(cond, q)] = fig
                 self.windows[(cond, q)] = box
+                self._window_legend[(cond, q)] = proxy
         self.layout = gridplot([[self.figures[("supply", "frequency")], self.figures[("ambient", "frequency")]],
                                 [self.figures[("supply", "duty")], self.figures[("ambient", "duty")]]],
                                toolbar_location=None)
@@ -68,3 +74,4 @@ class ConditionsPlot:
                 else:
                     box.bottom, box.top = window[0] * scale, window[1] * scale
                     box.visible = True
+                self._window_legend[(cond, q)].visible = box.visible

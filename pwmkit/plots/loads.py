@@ -6,7 +6,7 @@ from typing import Any
 
 import numpy as np
 
-from .style import OKABE_ITO, TRACE, new_figure, style_legend, time_scale
+from .style import OKABE_ITO, TRACE, engineering_scale, legend_outside, new_figure, time_scale
 
 __all__ = ["MotorCurrentPlot", "LossBarsPlot", "motor_current_trace", "led_current_trace", "LOSS_TERMS"]
 
@@ -63,10 +63,9 @@ class MotorCurrentPlot:
 
         self.source = ColumnDataSource(data={"t": [], "i": [], "mean": []}, name="pwmkit-motor-current")
         fig = new_figure(title="motor current", width=width, height=height, y_label="current [A]")
-        fig.line("t", "i", source=self.source, color=TRACE["load"], line_width=2.2, legend_label="armature current")
-        fig.line("t", "mean", source=self.source, color=OKABE_ITO["black"], line_dash="dashed", line_width=1.2,
-                 legend_label="mean")
-        style_legend(fig, "bottom_right")
+        arm = fig.line("t", "i", source=self.source, color=TRACE["load"], line_width=2.2)
+        mean = fig.line("t", "mean", source=self.source, color=OKABE_ITO["black"], line_dash="dashed", line_width=1.2)
+        legend_outside(fig, [("armature current", [arm]), ("mean", [mean])])
         self.figure = self.layout = fig
         self._unit = ""
 
@@ -74,15 +73,17 @@ class MotorCurrentPlot:
         t, i = motor_current_trace(timing, motor)
         factor, unit = time_scale(float(t[-1]))
         peak = float(np.max(i)) if i.size else 0.0
-        i_factor, i_unit = (1e-3, "mA") if peak < 1.0 else (1.0, "A")
+        i_factor, i_unit = engineering_scale(peak, "A")
         self.source.data = {"t": t / factor, "i": i / i_factor, "mean": np.full(t.shape, float(motor.i_mean) / i_factor)}
         label = f"time [{unit}] / current [{i_unit}]"
         if label != self._unit:
             self._unit = label
             self.figure.xaxis.axis_label = f"time [{unit}]"
             self.figure.yaxis.axis_label = f"current [{i_unit}]"
+        from ..numstyle import screen
+
         self.figure.title.text = (f"motor current — {motor.mode} conduction, ripple "
-                                  f"{float(motor.i_ripple_pp) / i_factor:.3g} {i_unit} peak to peak")
+                                  f"{screen(motor.i_ripple_pp, 'A')} peak to peak")
 
 
 class LossBarsPlot:
@@ -90,7 +91,8 @@ class LossBarsPlot:
 
     Attributes
     ----------
-    layout : bokeh figure; source : ColumnDataSource "pwmkit-mosfet-losses" (term, power [mW])
+    layout : bokeh figure; source : ColumnDataSource "pwmkit-mosfet-losses" (term, power in the unit of the
+    axis, which takes the engineering prefix of the largest term: µW, mW or W)
     """
 
     def __init__(self, *, width: int = 520, height: int = 220) -> None:
@@ -103,9 +105,12 @@ class LossBarsPlot:
                          x_label="power [mW]")
         fig.hbar(y="term", right="power", height=0.65, source=self.source, fill_color=OKABE_ITO["blue"],
                  line_color=None)
-        fig.add_tools(HoverTool(tooltips=[("", "@term"), ("power", "@power{0.000} mW")]))
+        self._hover = HoverTool(tooltips=[("", "@term"), ("power", "@power{0.000} mW")])
+        fig.add_tools(self._hover)
         fig.x_range.start = 0
+        fig.xaxis.major_label_orientation = 0
         self.figure = self.layout = fig
+        self._unit = "mW"
 
     def update(self, losses: Any) -> None:
         powers = []
@@ -115,9 +120,17 @@ class LossBarsPlot:
                 v = float(value)
             except (TypeError, ValueError):
                 v = 0.0
-            powers.append(1e3 * v if np.isfinite(v) else 0.0)
-        self.source.data = {"term": [label for _k, label in LOSS_TERMS], "power": powers}
-        title = ("MOSFET losses — thermal runaway: no stable temperature" if getattr(losses, "p_total", None) is None
-                 else "MOSFET losses")
+            powers.append(v if np.isfinite(v) else 0.0)
+        factor, unit = engineering_scale(max(powers) if powers else 0.0, "W")
+        if unit != self._unit:
+            self._unit = unit
+            self.figure.xaxis.axis_label = f"power [{unit}]"
+            self._hover.tooltips = [("", "@term"), ("power", f"@power{{0.000}} {unit}")]
+        self.source.data = {"term": [label for _k, label in LOSS_TERMS], "power": [p / factor for p in powers]}
+        from ..numstyle import screen
+
+        total = getattr(losses, "p_total", None)
+        title = ("MOSFET losses — thermal runaway: no stable temperature" if total is None
+                 else f"MOSFET losses — total {screen(total, 'W')}")
         if self.figure.title.text != title:
             self.figure.title.text = title

@@ -6,7 +6,7 @@ from typing import Any
 
 import numpy as np
 
-from .style import INK, TRACE, new_figure, style_legend
+from .style import INK, TRACE, engineering_scale, legend_outside, new_figure
 
 __all__ = ["SpreadPlot", "histogram_data"]
 
@@ -19,88 +19,91 @@ def histogram_data(histogram: Any, scale: float = 1.0) -> dict[str, np.ndarray]:
     histogram : Histogram
         ``counts`` and ``edges``.
     scale : float
-        Factor applied to the edges (100 turns duty fractions into %).
+        Factor applied to the edges (100 turns duty fractions into %; 1e-3 turns Hz into kHz).
     """
     edges = np.asarray(histogram.edges, dtype=float) * scale
     counts = np.asarray(histogram.counts, dtype=float)
     return {"left": edges[:-1], "right": edges[1:], "top": counts}
 
 
-class SpreadPlot:
-    """Two histograms (frequency, duty) of a Monte Carlo run.
+_EMPTY_BAND: dict[str, list[float]] = {"x0": [], "x1": []}
+_EMPTY_LINE: dict[str, list[float]] = {"x": []}
 
-    Drawn on top of each histogram: the worst-case band (hatched box, orange), the requirement
-    window (green solid edges) and the nominal value (black dashed). The title carries the yield.
+
+class SpreadPlot:
+    """Two histograms (frequency above duty) of a Monte Carlo run.
+
+    Drawn on each histogram and named in its legend (right of the data area): the worst-case band
+    (hatched, orange), the requirement window edges (green solid lines) and the nominal value
+    (black dashed line). The frequency axis uses the engineering prefix of the nominal frequency
+    (the unit the texts use); each title quotes the share of samples inside *its own* window.
 
     Attributes
     ----------
-    layout : bokeh layout (put it in a :class:`jupyter_bokeh.BokehModel`)
+    layout : bokeh layout (put it in a :class:`pwmkit.widgets.tabs.LivePlot`)
     sources : dict of ColumnDataSource, keys "frequency" and "duty"
+    bands, windows, nominals : dict of ColumnDataSource per key (worst case x0/x1, window x, nominal x)
     """
 
-    def __init__(self, *, width: int = 430, height: int = 230) -> None:
-        from bokeh.layouts import row
-        from bokeh.models import BoxAnnotation, ColumnDataSource, Span
+    def __init__(self, *, width: int = 640, height: int = 210) -> None:
+        from bokeh.layouts import column
+        from bokeh.models import ColumnDataSource
 
         self.sources: dict[str, Any] = {}
         self.figures: dict[str, Any] = {}
-        self._band: dict[str, Any] = {}
-        self._window: dict[str, tuple[Any, Any]] = {}
-        self._nominal: dict[str, Any] = {}
+        self.bands: dict[str, Any] = {}
+        self.windows: dict[str, Any] = {}
+        self.nominals: dict[str, Any] = {}
+        self._units: dict[str, str] = {"frequency": "Hz", "duty": "%"}
         for key, label in (("frequency", "frequency [Hz]"), ("duty", "duty [%]")):
             src = ColumnDataSource(data={"left": [], "right": [], "top": []}, name=f"pwmkit-spread-{key}")
-            fig = new_figure(title=f"{key} spread", width=width, height=height, x_label=label,
-                             y_label="samples")
-            fig.quad(left="left", right="right", top="top", bottom=0, source=src, fill_color=TRACE["spread"],
-                     line_color="white", fill_alpha=0.85, legend_label="Monte Carlo")
-            band = BoxAnnotation(fill_color=TRACE["worst"], fill_alpha=0.12, hatch_pattern="/",
-                                 hatch_color=TRACE["worst"], hatch_alpha=0.5, line_color=TRACE["worst"],
-                                 visible=False)
-            lo = Span(dimension="height", line_color=TRACE["window"], line_width=2, visible=False)
-            hi = Span(dimension="height", line_color=TRACE["window"], line_width=2, visible=False)
-            nominal = Span(dimension="height", line_color=INK["text"], line_dash="dashed", line_width=1.5,
-                           visible=False)
-            fig.add_layout(band)
-            fig.add_layout(lo)
-            fig.add_layout(hi)
-            fig.add_layout(nominal)
-            style_legend(fig, "top_left")
-            self.sources[key] = src
-            self.figures[key] = fig
-            self._band[key] = band
-            self._window[key] = (lo, hi)
-            self._nominal[key] = nominal
-        self.layout = row(self.figures["frequency"], self.figures["duty"])
+            band = ColumnDataSource(data=dict(_EMPTY_BAND), name=f"pwmkit-spread-{key}-worst")
+            window = ColumnDataSource(data=dict(_EMPTY_LINE), name=f"pwmkit-spread-{key}-window")
+            nominal = ColumnDataSource(data=dict(_EMPTY_LINE), name=f"pwmkit-spread-{key}-nominal")
+            fig = new_figure(title=f"{key} spread", width=width, height=height, x_label=label, y_label="samples")
+            bars = fig.quad(left="left", right="right", top="top", bottom=0, source=src, fill_color=TRACE["spread"],
+                            line_color="white", fill_alpha=0.85)
+            worst = fig.vstrip(x0="x0", x1="x1", source=band, fill_color=TRACE["worst"], fill_alpha=0.12,
+                               hatch_pattern="/", hatch_color=TRACE["worst"], hatch_alpha=0.5,
+                               line_color=TRACE["worst"])
+            edges = fig.vspan(x="x", source=window, line_color=TRACE["window"], line_width=2)
+            nom = fig.vspan(x="x", source=nominal, line_color=INK["text"], line_dash="dashed", line_width=1.5)
+            legend_outside(fig, [("Monte Carlo samples", [bars]), ("worst case", [worst]),
+                                 ("requirement window", [edges]), ("nominal", [nom])])
+            self.sources[key], self.figures[key] = src, fig
+            self.bands[key], self.windows[key], self.nominals[key] = band, window, nominal
+        self.layout = column(self.figures["frequency"], self.figures["duty"])  # stacked: fits a 1280 px window
 
     def update(self, spread: Any, worst_case: Any = None) -> None:
         """Show a :class:`pwmkit.tolerance.SpreadResult` and optionally a ``WorstCaseResult``."""
-        for key, scale in (("frequency", 1.0), ("duty", 100.0)):
+        from ..numstyle import screen
+
+        f_factor, f_unit = engineering_scale(float(spread.nominal_frequency), "Hz")
+        for key, scale, unit in (("frequency", 1.0 / f_factor, f_unit), ("duty", 100.0, "%")):
+            if unit != self._units[key]:
+                self._units[key] = unit
+                self.figures[key].xaxis.axis_label = f"{key} [{unit}]"
             hist = getattr(spread, f"{key}_histogram")
             self.sources[key].data = histogram_data(hist, scale)
             window = getattr(spread, f"{key}_window")
-            lo, hi = self._window[key]
-            if window is not None:
-                lo.location, hi.location = window[0] * scale, window[1] * scale
-            lo.visible = hi.visible = window is not None
-            nominal = getattr(spread, f"nominal_{key}")
-            self._nominal[key].location = nominal * scale
-            self._nominal[key].visible = True
-            band = self._band[key]
+            self.windows[key].data = {"x": [] if window is None else [window[0] * scale, window[1] * scale]}
+            self.nominals[key].data = {"x": [float(getattr(spread, f"nominal_{key}")) * scale]}
             if worst_case is not None:
-                band.left = getattr(worst_case, f"{key}_min") * scale
-                band.right = getattr(worst_case, f"{key}_max") * scale
-                band.visible = True
+                self.bands[key].data = {"x0": [float(getattr(worst_case, f"{key}_min")) * scale],
+                                        "x1": [float(getattr(worst_case, f"{key}_max")) * scale]}
             else:
-                band.visible = False
-            ylabel = "" if spread.yield_ is None else f" — yield {100 * spread.yield_:.4g} % in window"
-            self.figures[key].title.text = f"{key} spread, n = {spread.n}{ylabel}"
+                self.bands[key].data = dict(_EMPTY_BAND)
+            share = ""
+            if window is not None:
+                inside = spread.yield_for(**{f"{key}_window": window})
+                share = f" — {screen(inside, 'duty')} inside the {key} window"
+            self.figures[key].title.text = f"{key} spread, n = {screen(spread.n, 'count')}{share}"
 
     def clear(self, note: str = "") -> None:
         """Empty the histograms (e.g. when the design changed and the spread is stale)."""
         for key in self.sources:
             self.sources[key].data = {"left": [], "right": [], "top": []}
-            self._band[key].visible = False
-            for span in self._window[key]:
-                span.visible = False
-            self._nominal[key].visible = False
+            self.bands[key].data = dict(_EMPTY_BAND)
+            self.windows[key].data = dict(_EMPTY_LINE)
+            self.nominals[key].data = dict(_EMPTY_LINE)
             self.figures[key].title.text = f"{key} spread — {note}" if note else f"{key} spread"

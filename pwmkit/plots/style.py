@@ -15,7 +15,8 @@ from __future__ import annotations
 from types import MappingProxyType
 from typing import Any
 
-__all__ = ["OKABE_ITO", "INK", "TRACE", "REGION", "new_figure", "style_legend", "time_scale", "FONT"]
+__all__ = ["OKABE_ITO", "INK", "TRACE", "REGION", "new_figure", "style_legend", "time_scale", "engineering_scale",
+           "FONT", "legend_outside"]
 
 #: The Okabe–Ito colours under plain names.
 OKABE_ITO = MappingProxyType({
@@ -83,6 +84,41 @@ def time_scale(span: float) -> tuple[float, str]:
     return 1.0, "s"
 
 
+_PREFIXES = ((1e-12, "p"), (1e-9, "n"), (1e-6, "µ"), (1e-3, "m"), (1.0, ""), (1e3, "k"), (1e6, "M"), (1e9, "G"))
+
+
+def engineering_scale(largest: float, unit: str) -> tuple[float, str]:
+    """Factor and prefixed unit that show values up to ``largest`` with 1–1000 units on an axis.
+
+    The same prefix rule as :func:`pwmkit.values.format_value`, so an axis in kHz sits beside a
+    text in kHz.
+
+    Parameters
+    ----------
+    largest : float
+        Largest magnitude to show [unit].
+    unit : str
+        Unit symbol ("Hz", "W", "A" …).
+
+    Returns
+    -------
+    (factor, prefixed_unit) : tuple
+        Divide values by ``factor`` to get ``prefixed_unit``.
+
+    Examples
+    --------
+    >>> engineering_scale(5624.0, "Hz"), engineering_scale(2.9e-4, "W"), engineering_scale(0.0, "A")
+    ((1000.0, 'kHz'), (1e-06, 'µW'), (1.0, 'A'))
+    """
+    big = abs(float(largest))
+    if not big > 0 or big != big:
+        return 1.0, unit
+    for factor, prefix in _PREFIXES:
+        if big < 1000 * factor * (1 - 5e-4):
+            return factor, prefix + unit
+    return _PREFIXES[-1][0], _PREFIXES[-1][1] + unit
+
+
 def new_figure(*, title: str = "", width: int = 560, height: int = 220, x_label: str = "",
                y_label: str = "", **kwargs: Any) -> Any:
     """A bokeh figure in pwmkit's look: quiet grid, no logo, wheel zoom off until clicked.
@@ -122,12 +158,36 @@ def new_figure(*, title: str = "", width: int = 560, height: int = 220, x_label:
     return fig
 
 
-def style_legend(fig: Any, location: str = "top_right") -> None:
-    """Small, semi-transparent legend that can hide lines on click."""
-    fig.legend.location = location
+def style_legend(fig: Any, location: str | None = None) -> None:
+    """Small legend that can hide lines on click, placed clear of the traces.
+
+    A legend that bokeh put inside the data area (``legend_label=…``) is moved below it, in one
+    row, so it never covers a trace; ``location`` is kept for callers that name a corner but no
+    longer puts the legend over the data.
+    """
+    from bokeh.models import Legend
+
+    for legend in [r for r in fig.center if isinstance(r, Legend)]:
+        fig.center = [r for r in fig.center if r is not legend]
+        legend.orientation = "horizontal"
+        fig.add_layout(legend, "below")
     fig.legend.click_policy = "hide"
-    fig.legend.background_fill_alpha = 0.75
+    fig.legend.background_fill_alpha = 0.9
     fig.legend.label_text_font_size = "10px"
-    fig.legend.spacing = 0
-    fig.legend.padding = 4
-    fig.legend.margin = 4
+    fig.legend.spacing = 6
+    fig.legend.padding = 2
+    fig.legend.margin = 2
+    fig.legend.border_line_color = None
+
+
+def legend_outside(fig: Any, items: list[tuple[str, list[Any]]], place: str = "right") -> Any:
+    """Put a legend of ``items`` (label, renderers) beside the data area, never on the traces.
+
+    ``place`` is "right" (one column) or "below" (one row).
+    """
+    from bokeh.models import Legend
+
+    legend = Legend(items=items, orientation="vertical" if place == "right" else "horizontal")
+    fig.add_layout(legend, place)
+    style_legend(fig)
+    return legend

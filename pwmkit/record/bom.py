@@ -20,6 +20,7 @@ from typing import Any
 
 from ..design import Design, LedLoad, MotorLoad
 from ..errors import DesignError
+from ..glossary import plural
 
 __all__ = ["BomRow", "bom_rows", "bom_csv", "BOM_COLUMNS"]
 
@@ -166,12 +167,18 @@ def bom_rows(design: Design, evaluation: Any = None) -> list[BomRow]:
             if p_on is not None:
                 note += f"; {_fv(float(p_on), 'W')} while on"
             if rating:
-                note += f"; fit ≥ {_fv(float(rating), 'W')}"
+                from ..glossary import rating_text
+                from ..loads.led import resistor_derating
+
+                t_max = design.t_ambient_max_c
+                # usable share: 2× margin on the IEC 60115-1 derated rating (common practice)
+                derated = 0.5 * float(resistor_derating(t_max)) * float(rating)
+                note += f"; fit ≥ {rating_text(float(rating), derated, t_max)}"
         rows.append(BomRow("R5", load.n_parallel, "resistor, LED string series", _fv(load.r_series, "Ω"),
                            t.r_series, "", note))
         n = load.n_series * load.n_parallel
         rows.append(BomRow(f"LED1…LED{n}" if n > 1 else "LED1", n, f"LED, {load.colour}", "", "", "",
-                           f"{load.n_parallel} string(s) of {load.n_series}; V_F {_fv(load.vf, 'V')} "
+                           f"{plural(load.n_parallel, 'string')} of {load.n_series}; V_F {_fv(load.vf, 'V')} "
                            f"± {_fv(load.vf_spread, 'V')}"))
     elif isinstance(load, MotorLoad):
         fw = get_diode(design.freewheel.diode)

@@ -26,6 +26,7 @@ from typing import Any
 
 from ..design import Design
 from ..errors import DesignError
+from ..glossary import timer_label
 
 __all__ = ["QUANTITIES", "FORMATS", "formula", "symbol_table", "worked", "formula_sheet", "design_variant",
            "evaluate_expression"]
@@ -415,6 +416,12 @@ def worked(design: Design, quantity: str = "t_high", fmt: str = "markdown") -> s
                  f"{lhs_tex} = {_unit_latex(result) if quantity != 'duty' else _duty_latex(w['value'])}"]
         if fmt == "latex":
             return "\\begin{align*}\n" + " \\\\\n".join(ln.replace(" = ", " &= ", 1) for ln in lines) + "\n\\end{align*}"
+        if quantity in ("t_high", "t_low"):  # long expressions: one factor per line, so they fit a page
+            from .formula_display import expression_lines
+
+            names = {s: _number_text(w["values"][s], "latex") for s in w["expr"].free_symbols}
+            lines[0] = expression_lines(w["expr"], lhs_tex)
+            lines[1] = expression_lines(w["expr"], lhs_tex, symbol_names=names, mul_symbol="dot")
         return "\n\n".join(f"$$\n{ln}\n$$" for ln in lines)
     import sympy as sp
 
@@ -447,7 +454,7 @@ def _sheet_intro(design: Design, discharge: str, control: str) -> list[str]:
     t = design.timing
     return [
         f"Design: {_one_line(design.name)}",
-        f"Topology: {_TOPOLOGY_WORDS[t.topology]}; timer family: {t.timer}",
+        f"Topology: {_TOPOLOGY_WORDS[t.topology]}; timer family: {timer_label(t.timer)}",
         f"Model: {_DISCHARGE_WORDS[discharge]}; {_CONTROL_WORDS[control]}; steering diodes as a constant drop V_d.",
         "Numbers in SI units (Ω, F, V, s, Hz); derived with sympy from the RC threshold-crossing law "
         f"(pwmkit {pwmkit.__version__}). Verify on the bench.",

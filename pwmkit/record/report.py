@@ -60,6 +60,11 @@ math[display=block] { margin:8px 0; overflow-x:auto; }
 .caution { border:1px solid var(--rule); border-left:6px solid var(--warn); background:#fffdf7; padding:8px 12px;
            margin:8px 0; }
 .note { color:var(--muted); font-size:13px; }
+table.record-header { width:auto; font-size:13px; margin:10px 0 0; }
+table.record-header th { background:none; color:var(--muted); font-weight:normal; padding:2px 14px 2px 0; }
+table.record-header td { padding:2px 0; } table.record-header td.hash { font-family:ui-monospace,monospace;
+  font-size:12px; word-break:break-all; }
+.caution-summary { margin:12px 0; }
 footer { margin-top:40px; border-top:1px solid var(--rule); padding-top:10px; color:var(--muted); font-size:13px; }
 """
 
@@ -151,7 +156,9 @@ def _circuit(design: Design, evaluation: Any) -> str:
         parts.append(f"The timer output drives a low-side N-channel MOSFET ({sw.mosfet}) through "
                      f"{_fv(sw.r_gate, 'Ω')}.")
     if isinstance(load, LedLoad):
-        parts.append(f"The load is {load.n_parallel} string(s) of {load.n_series} {load.colour} LEDs, each string "
+        from ..glossary import plural
+
+        parts.append(f"The load is {plural(load.n_parallel, 'string')} of {load.n_series} {load.colour} LEDs, each string "
                      f"with a {_fv(load.r_series, 'Ω')} series resistor, from {_fv(design.load_supply, 'V')}.")
     elif isinstance(load, MotorLoad):
         clamp = (f" in series with a {_fv(design.freewheel.v_zener, 'V')} Zener clamp"
@@ -187,13 +194,18 @@ def _timing(evaluation: Any) -> str:
         return timing_html(evaluation, _table)
     ex, ideal = evaluation.timing, evaluation.ideal
     rows = []
+    from .. import glossary as g
+    from ..numstyle import screen
+
     for label, key, unit in (("t_high (charge)", "t_high", "s"), ("t_low (discharge)", "t_low", "s"),
                              ("period", "period", "s"), ("frequency", "frequency", "Hz")):
         a, b = float(getattr(ex, key)), float(getattr(ideal, key))
-        rows.append((label, _fv(a, unit, 5), _fv(b, unit, 5), f"{100 * (a / b - 1):+.2f} %"))
-    rows.append(("duty", f"{100 * float(ex.duty):.3f} %", f"{100 * float(ideal.duty):.3f} %",
-                 f"{100 * (float(ex.duty) - float(ideal.duty)):+.2f} points"))
-    out = _table(("quantity", "exact", "0.693 estimate", "difference"), rows, numeric=(1, 2, 3))
+        rows.append((label, screen(a, unit), screen(b, unit), screen(a / b - 1, "relative")))
+    rows.append(("duty", screen(ex.duty, "duty"), screen(ideal.duty, "duty"),
+                 screen(float(ex.duty) - float(ideal.duty), "points")))
+    out = _table(("quantity", g.EXACT, g.ESTIMATE, g.DIFFERENCE), rows, numeric=(1, 2, 3))
+    out += (f"<p class='note'>{_e(g.EXACT)}: {_e(g.EXACT_NOTE)}. {_e(g.ESTIMATE)}: {_e(g.ESTIMATE_NOTE)}. "
+            f"Duty differences are in {_e(g.POINTS_LONG)} ({_e(g.POINTS)}).</p>")
     dl = evaluation.diode_law
     if dl is not None:
         out += (f"<p class='note'>With Shockley-law steering diodes (an independent model) the frequency is "
@@ -215,19 +227,26 @@ def _spread(evaluation: Any) -> str:
                 + (f": {_e(note)}" if note else "") + ".</p>")
     import numpy as np
 
+    from .. import glossary as g
+    from ..numstyle import screen, screen_range
+
     q = np.array([0.135, 1.0, 50.0, 99.0, 99.865])
     p = sp.percentile(q)
-    rows = [(f"{qq:g} %", _fv(f, "Hz", 5), f"{100 * d:.3f} %") for qq, f, d in zip(q, p.frequency, p.duty)]
+    rows = [(f"{qq:g} %", screen(f, "Hz"), screen(d, "duty")) for qq, f, d in zip(q, p.frequency, p.duty)]
     out = _table(("percentile", "frequency", "duty"), rows, numeric=(1, 2))
-    items = [f"{sp.n} samples (seed {sp.seed})" + (f", {sp.n_failed} do not oscillate" if sp.n_failed else ""),
-             f"frequency {_fv(sp.frequency_mean, 'Hz', 5)} ± {_fv(sp.frequency_std, 'Hz', 3)} (mean ± σ)",
-             f"duty {100 * sp.duty_mean:.3f} % ± {100 * sp.duty_std:.3g} % (mean ± σ)"]
+    items = [f"{g.plural(sp.n, 'sample')} (seed {sp.seed})"
+             + (f", {g.plural(sp.n_failed, 'sample')} do not oscillate" if sp.n_failed else ""),
+             f"frequency {screen(sp.frequency_mean, 'Hz')} ± {screen(sp.frequency_std, 'Hz', 3)} (mean ± σ)",
+             f"duty {screen(sp.duty_mean, 'duty')} ± {screen(sp.duty_std, 'points').lstrip('+')} (mean ± σ)"]
     if sp.yield_ is not None:
-        items.append(f"yield inside the requirement window: {100 * sp.yield_:.3f} %")
+        items.append(f"yield inside the requirement window: {screen(sp.yield_, 'duty')}")
     wc = evaluation.worst_case
     if wc is not None:
-        items.append(f"worst case: frequency {_fv(wc.frequency_min, 'Hz', 4)} … {_fv(wc.frequency_max, 'Hz', 4)}, "
-                     f"duty {100 * wc.duty_min:.2f} … {100 * wc.duty_max:.2f} %")
+        cond = evaluation.conditions
+        items.append(f"worst case over the tolerances, {screen_range(cond.vcc_min, cond.vcc_max, 'V')} supply and "
+                     f"{screen_range(evaluation.design.t_ambient_min_c, evaluation.design.t_ambient_max_c, '°C')} "
+                     f"ambient: frequency {screen_range(wc.frequency_min, wc.frequency_max, 'Hz')}, "
+                     f"duty {screen_range(wc.duty_min, wc.duty_max, 'duty')}")
     if sp.sources:
         items.append("spread sources: " + "; ".join(sp.sources))
     if evaluation.conditions.spread_note:
@@ -235,19 +254,21 @@ def _spread(evaluation: Any) -> str:
     return out + "<ul>" + "".join(f"<li>{_e(i)}</li>" for i in items) + "</ul>"
 
 
-_PLAIN_UNITS = ("%", "°C", "", "K", "points", "rpm")
-
-
 def finding_value_text(x: float | None, unit: str) -> str:
-    """A finding's value or limit as text: engineering notation for SI units, plain otherwise; "—" for None."""
+    """A finding's value or bound as text by the screen rule of :mod:`pwmkit.numstyle`; "—" for None."""
+    from ..numstyle import screen
+
     if x is None:
         return "—"
-    if unit in _PLAIN_UNITS:
-        return f"{x:.4g} {unit}".strip()
-    return _fv(x, unit, 3)
+    if unit == "points":
+        return screen(float(x) / 100.0, "points")
+    if unit in ("", "1"):
+        return screen(x, "ratio")
+    return screen(x, unit)
 
 
 def _findings(evaluation: Any) -> str:
+    from .. import glossary as g
     from ..checks import severity_style
     from ..origins import origin_text
 
@@ -257,11 +278,12 @@ def _findings(evaluation: Any) -> str:
     for f in sorted(fs, key=lambda f: order.get(f.severity, 3)):
         _, symbol, word = severity_style(f.severity)
         remedy = f"<br><em>Remedy:</em> {_e(f.remedy)}" if f.remedy and f.severity != "ok" else ""
+        bound = "—" if f.limit is None else f"{g.bound_word(f.id)} {finding_value_text(f.limit, f.unit)}"
         rows.append(f"<tr><td><span class='sev sev-{_e(f.severity)}'>{_e(symbol)} {_e(word)}</span></td>"
                     f"<td><b>{_e(f.title)}</b><br><code>{_e(f.id)}</code></td><td class='num'>{_e(finding_value_text(f.value, f.unit))}</td>"
-                    f"<td class='num'>{_e(finding_value_text(f.limit, f.unit))}</td><td>{_e(f.explanation)}{remedy}"
-                    f"<br><span class='note'>origin: {_e(origin_text(f.origin))}</span></td></tr>")
-    head = ("<tr><th>severity</th><th>rule</th><th class='num'>value</th><th class='num'>limit</th>"
+                    f"<td class='num'>{_e(bound)}</td><td>{_e(f.explanation)}{remedy}"
+                    f"<br><span class='note'>{_e(g.SOURCE)}: {_e(origin_text(f.origin))}</span></td></tr>")
+    head = ("<tr><th>severity</th><th>rule</th><th class='num'>value</th><th class='num'>compared with</th>"
             "<th>finding</th></tr>")
     return f"<table class='findings'><thead>{head}</thead><tbody>{''.join(rows)}</tbody></table>"
 
@@ -337,7 +359,38 @@ def _plots(evaluation: Any) -> tuple[str, dict[str, str]]:
 # ------------------------------------------------------------------------------------------------
 # public API
 # ------------------------------------------------------------------------------------------------
-def report_html(design: Design, evaluation: Any = None) -> str:
+def _record_header(design: Design, source_name: str | None, source_bytes: bytes | None, date: str | None) -> str:
+    """The review header: design, source file and its content hash, date, pwmkit version, revision note."""
+    import datetime
+    import hashlib
+
+    import pwmkit
+
+    if date is None:
+        date = datetime.datetime.now(datetime.timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
+    digest = hashlib.sha256(source_bytes).hexdigest() if source_bytes is not None else None
+    rows = [("design", design.name),
+            ("source file", source_name or "— (built in Python, no design file)"),
+            ("content hash (SHA-256)", digest or "—"),
+            ("date", date),
+            ("pwmkit version", pwmkit.__version__),
+            ("revision note", design.revision or "— (none in the design file: add design.revision)")]
+    body = "".join(f"<tr><th>{_e(k)}</th><td class='{'hash' if 'hash' in k else ''}'>{_e(v)}</td></tr>"
+                   for k, v in rows)
+    return f"<table class='record-header'><tbody>{body}</tbody></table>"
+
+
+def _cautions_summary(evaluation: Any) -> str:
+    items = list(evaluation.cautions)
+    if not items:
+        return ""
+    titles = " · ".join(_e(c.title) for c in items)
+    return (f"<div class='caution caution-summary'><b>⚠ Cautions</b> — {titles}. "
+            "<a href='#cautions'>Full texts at the end.</a></div>")
+
+
+def report_html(design: Design, evaluation: Any = None, *, source_name: str | None = None,
+                source_bytes: bytes | None = None, date: str | None = None) -> str:
     """The design's review document as one self-contained HTML page.
 
     Parameters
@@ -345,6 +398,12 @@ def report_html(design: Design, evaluation: Any = None) -> str:
     design : Design
     evaluation : pwmkit.evaluate.Evaluation, optional
         Its evaluation; computed with the full tolerance analysis when not given.
+    source_name : str, optional
+        Name of the design file the design was read from (shown in the header).
+    source_bytes : bytes, optional
+        The design file's content; its SHA-256 hash is shown in the header.
+    date : str, optional
+        Date text for the header (default: now, UTC).
 
     Returns
     -------
@@ -368,13 +427,18 @@ def report_html(design: Design, evaluation: Any = None) -> str:
     fs = evaluation.findings
     tm = evaluation.timing
     name = _e(design.name)
-    verdict = (f"<div class='verdict'><div>frequency<b>{_e(_fv(tm.frequency, 'Hz', 4))}</b></div>"
-               f"<div>duty<b>{100 * float(tm.duty):.1f} %</b></div>"
-               f"<div>checks<b>{fs.fail_count} fail · {fs.warn_count} warn · {fs.ok_count} ok</b></div></div>")
+    from .. import glossary as g
+    from ..numstyle import screen
+
+    verdict = (f"<div class='verdict'><div>frequency<b>{_e(screen(tm.frequency, 'Hz'))}</b></div>"
+               f"<div>duty<b>{_e(screen(tm.duty, 'duty'))}</b></div>"
+               f"<div>checks<b>{_e(g.severity_count('fail', fs.fail_count))} · "
+               f"{_e(g.severity_count('warn', fs.warn_count))} · {_e(g.severity_count('ok', fs.ok_count))}</b></div></div>")
     bom = _table(("ref", "qty", "part", "value", "series", "tolerance", "notes"),
                  [r.as_tuple() for r in bom_rows(design, evaluation)], numeric=(1,))
     sections = [
-        ("summary", "Summary", verdict + (f"<p>{_e(design.notes)}</p>" if design.notes else "")),
+        ("summary", "Summary", verdict + _cautions_summary(evaluation)
+         + (f"<p>{_e(design.notes)}</p>" if design.notes else "")),
         ("requirements", "Requirements", _requirements(design)),
         ("circuit", "Circuit", _circuit(design, evaluation) + _schematic(design, evaluation)),
         ("parts", "Parts and preferred-value series", bom
@@ -403,17 +467,22 @@ def report_html(design: Design, evaluation: Any = None) -> str:
         f"<meta name='generator' content='pwmkit {_e(pwmkit.__version__)}'>"
         f"<title>pwmkit design record — {name}</title><style>{_CSS}</style>{head_js}</head>"
         f"<body><main><header class='top'><h1>Design record — {name}</h1>"
-        f"<p>{_e(_circuit_words(design.timing.topology))}, {_e(design.timing.timer)} timer"
-        f"{', ' + _e(design.load.kind) + ' load' if design.load is not None else ''}. "
-        "Every figure below is computed by pwmkit's models from the design file.</p></header>"
+        f"<p>{_e(_circuit_words(design.timing.topology))}, {_e(g.timer_label(design.timing.timer))} timer"
+        f"{', ' + _e(g.load_label(design.load.kind)) + ' load' if design.load is not None else ''}. "
+        "Every figure below is computed by pwmkit's models from the design file.</p>"
+        f"{_record_header(design, source_name, source_bytes, date)}</header>"
         f"{body}<footer>Generated by pwmkit {_e(pwmkit.__version__)}. Model results for review: verify every design "
         "on the bench and follow the part makers' data sheets, local codes and licensed practice.</footer>"
         "</main></body></html>\n"
     )
 
 
-def write_report(design: Design, path: str | os.PathLike[str], *, evaluation: Any = None, force: bool = False) -> Path:
+def write_report(design: Design, path: str | os.PathLike[str], *, evaluation: Any = None, force: bool = False,
+                 source: str | os.PathLike[str] | None = None) -> Path:
     """Write :func:`report_html` to ``path`` atomically (refuses to replace a file unless ``force``).
+
+    ``source`` is the design file the design was read from: its name and content hash go into the
+    report header.
 
     Returns
     -------
@@ -425,4 +494,8 @@ def write_report(design: Design, path: str | os.PathLike[str], *, evaluation: An
     p = Path(path)
     if p.exists() and not force:
         raise DesignError(f"{p}: already exists; use --force (force=True) to replace it")
-    return atomic_write(p, report_html(design, evaluation), force=force)
+    name = data = None
+    if source is not None:
+        src = Path(source)
+        name, data = src.name, src.read_bytes()
+    return atomic_write(p, report_html(design, evaluation, source_name=name, source_bytes=data), force=force)

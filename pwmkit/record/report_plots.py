@@ -37,12 +37,13 @@ def report_figures(evaluation: Any) -> dict[str, Any]:
     from ..plots.loads import LossBarsPlot
     from ..plots.spread import SpreadPlot
     from ..plots.travel import PotTravelPlot
-    from ..plots.waveforms import WaveformPlot
+    from ..plots.waveforms import WaveformPlot, output_high_level
 
     design = evaluation.design
     out: dict[str, Any] = {}
     wave = WaveformPlot(width=760, height=230)
-    wave.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor)
+    wave.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor,
+                v_out_high=output_high_level(design, evaluation))
     # without a load the (hidden, empty) current plot is left out: bokeh cannot range an empty plot
     out["waveform"] = wave.layout if (evaluation.led is not None or evaluation.motor is not None) else wave.top
     if evaluation.pot_travel is not None:

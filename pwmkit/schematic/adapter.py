@@ -26,12 +26,15 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     -------
     Schematic
     """
+    from ..glossary import diode_label, mosfet_label, timer_part_label
+
     t = design.timing
     if t.topology == "two-timer":
         from .two_timer import for_two_timer
 
         return for_two_timer(design, annotate=annotate, timing=timing)
-    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass)
+    kw: dict[str, Any] = dict(ra=t.ra, rb=t.rb, c=t.c, vcc=design.vcc, c_cv=t.cv_bypass,
+                              diode_part=diode_label(t.diode), timer_part=timer_part_label(t.timer))
     if t.topology == "pot":
         kw.update(pot=t.pot, wiper=t.wiper)
     if t.vctl is not None:
@@ -41,6 +44,7 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
     load = design.load
     if load is not None:
         kw["r_gate"] = design.switch.r_gate
+        kw["mosfet_part"] = mosfet_label(design.switch.mosfet)
         if design.v_load is not None:
             kw["v_load"] = design.v_load
         if load.kind == "led":
@@ -49,7 +53,8 @@ def for_design(design: Any, *, annotate: bool = True, timing: Any = None) -> Sch
             raise DesignError("design.load: the schematic draws heater loads on the two-timer topology only; "
                               "this astable drawing knows LED and motor loads")
         else:
-            kw.update(load="motor", clamp=design.freewheel.clamp)
+            kw.update(load="motor", clamp=design.freewheel.clamp,
+                      freewheel_part=f"freewheel {diode_label(design.freewheel.diode)}")
             if design.freewheel.clamp == "zener":
                 kw["v_zener"] = design.freewheel.v_zener
     if annotate:

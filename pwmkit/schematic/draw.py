@@ -33,6 +33,10 @@ def draw(
     v_load: Any = None,
     clamp: str = "diode",
     mosfet_label: str = "Q1",
+    diode_part: str = "signal diode",
+    timer_part: str = "555-type",
+    mosfet_part: str = "N-MOSFET",
+    freewheel_part: str = "freewheel diode",
     annotations: Mapping[str, Any] | None = None,
     style: SchematicStyle | Mapping[str, Any] | None = None,
     v_zener: Any = None,
@@ -76,6 +80,8 @@ def draw(
     v_load : load supply when it differs from ``vcc`` [V]
     clamp : ``"diode"`` or ``"zener"`` freewheel path for the motor
     mosfet_label : reference of the MOSFET
+    diode_part, timer_part, mosfet_part, freewheel_part : part-family labels beside the steering diodes,
+        the timer, the MOSFET and the freewheel diode (e.g. "1 A Schottky diode", "CMOS 555-type")
     annotations : computed quantities to write beside the paths: ``t_high``, ``r_charge`` (charge
         path), ``t_low``, ``r_discharge`` (discharge path), ``frequency``, ``period``, ``duty``
         (footer) as numbers in SI units (duty as a fraction), or any key with a text value
@@ -112,6 +118,7 @@ def draw(
         topology, ra=ra, rb=rb, c=c, pot=pot, wiper=wiper, vctl=vctl, r_cv=r_cv, c_cv=c_cv,
         c_decouple=c_decouple, vcc=vcc, load=load, n_series=n_series, n_parallel=n_parallel, r_led=r_led,
         r_gate=r_gate, v_load=v_load, clamp=clamp, v_zener=v_zener, mosfet_label=mosfet_label,
+        diode_part=diode_part, timer_part=timer_part, mosfet_part=mosfet_part, freewheel_part=freewheel_part,
         annotations=annotations,
     )
     st = resolve_style(style)

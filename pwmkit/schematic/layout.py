@@ -169,10 +169,10 @@ class _Builder:
         self.sh.wire((0.0, y_db), (x_l, y_db))
         self.vpart(elm.Diode().fill(True), (x_l, y_db), (x_l, y_cb))
         self.sh.wire((x_l, y_cb), (0.0, y_cb))
-        self.record("D1", "diode", "signal diode", "d_charge", ("DIS", "THR"), anode="DIS", cathode="THR")
+        self.record("D1", "diode", s.diode_part, "d_charge", ("DIS", "THR"), anode="DIS", cathode="THR")
         for y in (y_dis, y_db, y_cb, Y_C):
             self.sh.dot((0.0, y))
-        left = [self.side_label(x_l, (y_db + y_cb) / 2, "D1\nsignal diode", "left")]
+        left = [self.side_label(x_l, (y_db + y_cb) / 2, f"D1\n{s.diode_part}", "left")]
         left.append(self._path_note("charge", -PAD, (top + y_db) / 2, "right"))
         left.append(self._path_note("discharge", -PAD, (y_dis + y_cb) / 2, "right"))
         charge = [(0.0, top), (0.0, y_db), (x_l, y_db), (x_l, y_cb), (0.0, y_cb), (0.0, Y_C)]
@@ -187,8 +187,8 @@ class _Builder:
         self.sh.wire((0.0, y_db), (0.0, y_dis))
         self.vpart(elm.Diode().fill(True), (0.0, y_dis), (0.0, y_cb))
         self.sh.wire((0.0, y_cb), (0.0, Y_C))
-        self.record("D1", "diode", "signal diode", "d_charge", ("DIS", "THR"), anode="DIS", cathode="THR")
-        right.append(self.side_label(0.0, (y_dis + y_cb) / 2, "D1\nsignal diode", "right"))
+        self.record("D1", "diode", s.diode_part, "d_charge", ("DIS", "THR"), anode="DIS", cathode="THR")
+        right.append(self.side_label(0.0, (y_dis + y_cb) / 2, f"D1\n{s.diode_part}", "right"))
         right.append(self._c1())
         w_note = self.w(self.notes("discharge")) if self.notes("discharge") else 0.0
         x_l = -max(2.4, 2 * PAD + w_note + 0.2)
@@ -199,13 +199,13 @@ class _Builder:
             self.vpart(elm.ResistorIEC(), (x_l, y_db), (x_l, y_mid))
             self.vpart(elm.Diode().fill(True), (x_l, y_cb), (x_l, y_mid))
             self.record("R2", "resistor", self.r_value(s.rb), "rb", ("D2_K", "DIS"))
-            self.record("D2", "diode", "signal diode", "d_discharge", ("THR", "D2_K"), anode="THR", cathode="D2_K")
+            self.record("D2", "diode", s.diode_part, "d_discharge", ("THR", "D2_K"), anode="THR", cathode="D2_K")
             left.append(self.side_label(x_l, (y_db + y_mid) / 2, f"R2\n{self.r_value(s.rb)}", "left"))
-            left.append(self.side_label(x_l, (y_cb + y_mid) / 2, "D2\nsignal diode", "left"))
+            left.append(self.side_label(x_l, (y_cb + y_mid) / 2, f"D2\n{s.diode_part}", "left"))
         else:
             self.vpart(elm.Diode().fill(True), (x_l, y_cb), (x_l, y_db))
-            self.record("D2", "diode", "signal diode", "d_discharge", ("THR", "DIS"), anode="THR", cathode="DIS")
-            left.append(self.side_label(x_l, y_mid, "D2\nsignal diode", "left"))
+            self.record("D2", "diode", s.diode_part, "d_discharge", ("THR", "DIS"), anode="THR", cathode="DIS")
+            left.append(self.side_label(x_l, y_mid, f"D2\n{s.diode_part}", "left"))
         for y in (y_dis, y_db, y_cb, Y_C):
             self.sh.dot((0.0, y))
         left.append(self._path_note("charge", -PAD, (top + y_db) / 2, "right"))
@@ -239,21 +239,21 @@ class _Builder:
         self.sh.dot((0.0, y_dis))
         # charge side: end A -> D1 -> capacitor node
         self.vpart(elm.Diode().fill(True), (x_a, y_pot), (x_a, Y_C))
-        self.record("D1", "diode", "signal diode", "d_charge", ("POT_A", "THR"), anode="POT_A", cathode="THR")
-        right.append(self.side_label(x_a, (y_pot + Y_C) / 2, "D1\nsignal diode", "right"))
+        self.record("D1", "diode", s.diode_part, "d_charge", ("POT_A", "THR"), anode="POT_A", cathode="THR")
+        right.append(self.side_label(x_a, (y_pot + Y_C) / 2, f"D1\n{s.diode_part}", "right"))
         # discharge side: capacitor node -> D2 -> RB -> end B
         left = []
         if s.rb > 0:
             self.vpart(elm.ResistorIEC(), (x_b, y_pot), (x_b, y_mid))
             self.vpart(elm.Diode().fill(True), (x_b, Y_C), (x_b, y_mid))
             self.record("R2", "resistor", self.r_value(s.rb), "rb", ("D2_K", "POT_B"))
-            self.record("D2", "diode", "signal diode", "d_discharge", ("THR", "D2_K"), anode="THR", cathode="D2_K")
+            self.record("D2", "diode", s.diode_part, "d_discharge", ("THR", "D2_K"), anode="THR", cathode="D2_K")
             left.append(self.side_label(x_b, (y_pot + y_mid) / 2, f"R2\n{self.r_value(s.rb)}", "left"))
-            left.append(self.side_label(x_b, (Y_C + y_mid) / 2, "D2\nsignal diode", "left"))
+            left.append(self.side_label(x_b, (Y_C + y_mid) / 2, f"D2\n{s.diode_part}", "left"))
         else:
             self.vpart(elm.Diode().fill(True), (x_b, Y_C), (x_b, y_pot))
-            self.record("D2", "diode", "signal diode", "d_discharge", ("THR", "POT_B"), anode="THR", cathode="POT_B")
-            left.append(self.side_label(x_b, (Y_C + y_pot) / 2, "D2\nsignal diode", "left"))
+            self.record("D2", "diode", s.diode_part, "d_discharge", ("THR", "POT_B"), anode="THR", cathode="POT_B")
+            left.append(self.side_label(x_b, (Y_C + y_pot) / 2, f"D2\n{s.diode_part}", "left"))
         self.sh.wire((x_b, Y_C), (x_a, Y_C))
         self.sh.dot((x_a, Y_C))
         right.append(self._c1())
@@ -273,9 +273,9 @@ class _Builder:
         sh, st = self.sh, self.st
         small = st.font_size * 0.85
         sh.add(elm.Rect(corner1=(x0, BOX_Y0), corner2=(x0 + BOX_W, BOX_Y1), fill=st.box_fill).theta(0).at((0, 0)))
-        sh.text((x0 + BOX_W / 2, (BOX_Y0 + BOX_Y1) / 2 + 0.5), "U1\n555-type", halign="center")
-        self.record("U1", "timer", "555-type", "timer", ("VCC", "GND", "DIS", "THR", "CV", "OUT"),
-                    label="U1 555-type timer")
+        sh.text((x0 + BOX_W / 2, (BOX_Y0 + BOX_Y1) / 2 + 0.5), f"U1\n{self.s.timer_part}", halign="center")
+        self.record("U1", "timer", self.s.timer_part, "timer", ("VCC", "GND", "DIS", "THR", "CV", "OUT"),
+                    label=f"U1 {self.s.timer_part} timer")
         left_pins = (("DIS", "7", PIN_DIS), ("THR", "6", PIN_THR), ("TRIG", "2", PIN_TRIG))
         for name, num, y in left_pins:
             sh.wire((x_pin, y), (x0, y))
@@ -367,8 +367,8 @@ class _Builder:
         sh.wire((x_d, y_src), (x_d, 0.0))
         sh.wire((x_d, y_drain), (x_d, Y_DRAIN_NODE))
         ref = s.mosfet_label
-        self.record(ref, "mosfet", "N-MOSFET", "switch", ("DRAIN", "GATE", "GND"))
-        q_right = self.side_label(x_d, Y_GATE - 0.1, f"{ref}\nN-MOSFET", "right", 0.7)
+        self.record(ref, "mosfet", s.mosfet_part, "switch", ("DRAIN", "GATE", "GND"))
+        q_right = self.side_label(x_d, Y_GATE - 0.1, f"{ref}\n{s.mosfet_part}", "right", 0.7)
         tees = [x_d]
         if s.load == "motor":
             right = self._motor(x_d, top, q_right, tees)
@@ -391,18 +391,18 @@ class _Builder:
             y_k = (yn + top) / 2
             sh.two(elm.Diode().fill(True), (x_f, yn), (x_f, y_k))
             sh.two(elm.Zener().fill(True), (x_f, top), (x_f, y_k))
-            self.record("D3", "diode", "freewheel diode", "freewheel", ("DRAIN", "CLAMP"), anode="DRAIN",
+            self.record("D3", "diode", self.s.freewheel_part, "freewheel", ("DRAIN", "CLAMP"), anode="DRAIN",
                         cathode="CLAMP")
             z_value = "Zener" if s.v_zener is None else f"Zener {format_value(s.v_zener, 'V')}"
             self.record("DZ1", "zener", z_value, "clamp", ("CLAMP", self.vload_node), anode=self.vload_node,
                         cathode="CLAMP")
-            r1 = self.side_label(x_f, (yn + y_k) / 2, "D3\nfreewheel diode", "right")
+            r1 = self.side_label(x_f, (yn + y_k) / 2, f"D3\n{s.freewheel_part}", "right")
             r2 = self.side_label(x_f, (y_k + top) / 2, f"DZ1\n{z_value}", "right")
             return max(r1, r2)
         sh.two(elm.Diode().fill(True), (x_f, yn), (x_f, top))
-        self.record("D3", "diode", "freewheel diode", "freewheel", ("DRAIN", self.vload_node), anode="DRAIN",
+        self.record("D3", "diode", self.s.freewheel_part, "freewheel", ("DRAIN", self.vload_node), anode="DRAIN",
                     cathode=self.vload_node)
-        return self.side_label(x_f, y_m, "D3\nfreewheel diode", "right")
+        return self.side_label(x_f, y_m, f"D3\n{s.freewheel_part}", "right")
 
     def _leds(self, x_d: float, top: float) -> float:
         s, sh = self.s, self.sh

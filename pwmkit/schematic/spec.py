@@ -57,6 +57,11 @@ class Spec:
     v_zener: float | None
     mosfet_label: str
     notes: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    #: part-family labels written beside the symbols
+    diode_part: str = "signal diode"
+    timer_part: str = "555-type"
+    mosfet_part: str = "N-MOSFET"
+    freewheel_part: str = "freewheel diode"
 
     @property
     def shared_supply(self) -> bool:
@@ -130,7 +135,9 @@ def _notes(annotations: Any) -> dict[str, tuple[str, ...]]:
 
 def make_spec(topology: Any, *, ra: Any, rb: Any, c: Any, pot: Any, wiper: Any, vctl: Any, r_cv: Any, c_cv: Any,
               c_decouple: Any, vcc: Any, load: Any, n_series: Any, n_parallel: Any, r_led: Any, r_gate: Any,
-              v_load: Any, clamp: Any, v_zener: Any, mosfet_label: Any, annotations: Any) -> Spec:
+              v_load: Any, clamp: Any, v_zener: Any, mosfet_label: Any, annotations: Any,
+              diode_part: Any = "signal diode", timer_part: Any = "555-type", mosfet_part: Any = "N-MOSFET",
+              freewheel_part: Any = "freewheel diode") -> Spec:
     """Check every input of :func:`pwmkit.schematic.draw` (see there)."""
     from ..timing.paths import TOPOLOGIES
 
@@ -180,4 +187,8 @@ def make_spec(topology: Any, *, ra: Any, rb: Any, c: Any, pot: Any, wiper: Any, 
         v_zener=v_zener_v,
         mosfet_label=clean_text(mosfet_label, "mosfet_label", max_len=24),
         notes=_notes(annotations),
+        diode_part=clean_text(diode_part, "diode_part", max_len=40),
+        timer_part=clean_text(timer_part, "timer_part", max_len=40),
+        mosfet_part=clean_text(mosfet_part, "mosfet_part", max_len=40),
+        freewheel_part=clean_text(freewheel_part, "freewheel_part", max_len=40),
     )

@@ -36,6 +36,7 @@ from .formulas import FormulasPanel
 from .loads import LoadsPanel
 from .session import DesignSession
 from .spread import SpreadPanel
+from .tabs import PageTabs
 from .timing import TimingPanel
 from .views import FlickerPanel, PotTravelPanel, WaveformPanel
 
@@ -68,19 +69,38 @@ def load_bokehjs() -> bool:
 
 
 def _header_html(design: Design, evaluation: Any, findings: Any = None) -> str:
+    from .. import glossary as g
     from ..checks.findings import severity_style
+    from ..numstyle import screen
 
     f = evaluation.findings if findings is None else findings
     parts = []
     for sev, n in (("fail", f.fail_count), ("warn", f.warn_count), ("ok", f.ok_count), ("not-run", f.not_run_count)):
-        colour, symbol, word = severity_style(sev)
-        parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px'>"
-                     f"{symbol} {n} {esc(word)}</span>")
-    load = "no load" if design.load is None else f"{design.load.kind} load"
-    return (f"<div class='pwmkit-header' style='display:flex;gap:16px;align-items:baseline;flex-wrap:wrap'>"
+        if sev == "not-run" and not n:
+            continue
+        colour, symbol, _word = severity_style(sev)
+        parts.append(f"<span style='border-left:5px solid {colour};padding:0 6px;margin-right:6px;white-space:nowrap'>"
+                     f"{symbol} {esc(g.severity_count(sev, n))}</span>")
+    load = g.load_label(None if design.load is None else design.load.kind)
+    load = load if design.load is None else f"{load} load"
+    return (f"<div class='pwmkit-header' style='display:flex;gap:4px 16px;align-items:baseline;flex-wrap:wrap'>"
             f"<span style='font-size:16px;font-weight:700'>{esc(design.name)}</span>"
-            f"<span style='color:#5a6270'>{esc(_circuit_words(design.timing.topology))} · {esc(design.timing.timer)} timer · "
-            f"{design.vcc:.3g} V · {esc(load)}</span><span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
+            f"<span style='color:#5a6270'>{esc(_circuit_words(design.timing.topology))} · "
+            f"{esc(g.timer_label(design.timing.timer))} timer · {esc(screen(design.vcc, 'V'))} · {esc(load)}</span>"
+            f"<span class='pwmkit-verdict'>checks: {''.join(parts)}</span></div>")
+
+
+#: Layout rules of the dashboard (fit at 1280 px: the readout and the waveform stay together).
+DASHBOARD_CSS = """<style>
+.pwmkit-dashboard {max-width:100%; overflow:hidden}
+.pwmkit-dashboard .pwmkit-main {gap:8px 20px}
+.pwmkit-dashboard .pwmkit-views {min-width:0}
+.pwmkit-downloads .widget-hbox {gap:4px 12px}
+.pwmkit-dashboard .widget-toggle-buttons {flex-wrap:wrap; max-width:100%; height:auto}
+.pwmkit-dashboard button.jupyter-button {width:auto; max-width:100%}
+.pwmkit-dashboard .widget-toggle-buttons .widget-toggle-button {margin-bottom:2px}
+.pwmkit-dashboard .widget-html-content, .pwmkit-dashboard .widget-htmlmath-content {white-space:normal}
+</style>"""
 
 
 class Dashboard(w.VBox):
@@ -106,14 +126,14 @@ class Dashboard(w.VBox):
         self.session, file_state = open_source(design)
         s = self.session
         self.header = w.HTML()
-        self.cautions = CautionsBox(s, collapsed=True)
+        self.cautions = CautionsBox(s, collapsed=False)  # once per view, open on first display
         two_timer = s.design.timing.topology == "two-timer"
         if two_timer:  # the two-timer PWM has its own editor (clock, monostable, control range)
             from .two_timer import TwoTimerPanel
 
             self.timing = TwoTimerPanel(s)  # type: ignore[assignment]
         else:
-            self.timing = TimingPanel(s)
+            self.timing = TimingPanel(s, show_readout=False)
         self.waveforms = WaveformPanel(s, show_cautions=False)
         self.pot_travel = PotTravelPanel(s)
         self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
@@ -151,17 +171,26 @@ class Dashboard(w.VBox):
         pages = pages + own
         if self.as_built is not None:
             pages.append(("As built", self.as_built))
-        self.tabs = w.Tab(children=[p for _t, p in pages])
-        self.tabs.titles = tuple(t for t, _p in pages)
-        self.timing.layout.width = "560px"
-        self.timing.layout.min_width = "560px"
-        top = w.HBox([w.VBox([self.timing, self.requirement_band]), self.waveforms],
-                     layout=w.Layout(flex_flow="row wrap", justify_content="flex-start"))
+        self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
+        self.timing.layout.width = "440px" if not two_timer else "560px"
+        self.timing.layout.min_width = self.timing.layout.width
+        # the main readout sits with the waveforms; controls beside them when the width allows,
+        # else the readout and the waveforms come first (wrap-reverse) so both stay in view
+        readout = [] if two_timer else [self.timing.readout]
+        views = w.VBox([*readout, self.requirement_band, self.waveforms])
+        views.add_class("pwmkit-views")
+        top = w.HBox([self.timing, views],
+                     layout=w.Layout(flex_flow="row wrap-reverse", justify_content="flex-start",
+                                     align_items="flex-end"))
+        top.add_class("pwmkit-main")
         from .crosscheck import crosscheck_box
+        from .downloads import DownloadsBar
 
         self.crosscheck = crosscheck_box(s)  # only where ngspice is installed
         extra = [self.crosscheck] if self.crosscheck is not None else []
-        super().__init__([self.file, self.header, self.cautions, top, self.tabs, *extra])
+        self.downloads = DownloadsBar(s)
+        super().__init__([w.HTML(DASHBOARD_CSS), self.file, self.header, self.cautions, top, self.tabs,
+                          *extra, self.downloads])
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")
@@ -239,17 +268,16 @@ class Dashboard(w.VBox):
 
     def flush(self) -> None:
         """Run debounced work (schematic, formulas, spread re-run) now."""
-        for panel in (self.schematic, self.formulas, self.spread, self.as_built):
+        for panel in (self.schematic, self.formulas, self.spread, self.as_built, self.downloads):
             if panel is not None:
                 panel.flush()
 
     def resync(self) -> int:
-        """Re-serialise every plot from its current state; returns the number of plots.
+        """Re-serialise every plot from its current state and redraw its views; returns the number of plots.
 
-        jupyter_bokeh draws a *new* view (for instance after the browser page was reloaded while
-        the kernel kept running) from the state the plot widget was created with; later changes
-        reach only views that already existed. Call this after a reload to bring new views up to
-        date (any edit of the design also refreshes the data, though not static labels).
+        Not needed after a page reload: every plot is a :class:`~pwmkit.widgets.tabs.LivePlot`,
+        which sends its current state to a front end that (re)connects. This redraws the views
+        that are open now (for instance after a plot was zoomed in the browser).
         """
         from jupyter_bokeh import BokehModel
 
@@ -299,5 +327,8 @@ def dashboard(design: Design | DesignSession | str | os.PathLike[str], *, deboun
     >>> dash = dashboard(demo_designs()["grow-bar"])   # doctest: +SKIP
     >>> dash                                            # doctest: +SKIP
     """
+    from .downloads import load_page_helpers
+
     load_bokehjs()
+    load_page_helpers()
     return Dashboard(design, debounce=debounce)

@@ -132,9 +132,9 @@ class CandidatesPanel(Panel):
     # -- plot ----------------------------------------------------------------------------------
     def _build_plot(self) -> None:
         from bokeh.models import ColumnDataSource, HoverTool
-        from jupyter_bokeh import BokehModel
 
         from ..plots.style import TRACE, new_figure, style_legend
+        from .tabs import live_plot
 
         self.plot_source = ColumnDataSource(data={"yield": [], "spread": [], "size": [], "rank": [], "meets": []},
                                             name="pwmkit-candidates")
@@ -148,9 +148,7 @@ class CandidatesPanel(Panel):
         fig.add_tools(HoverTool(tooltips=[("set", "@rank"), ("yield", "@yield{0.0} %"), ("spread", "@spread{0.0} %")]))
         style_legend(fig, "top_left")
         self.figure = fig
-        self.bokeh = BokehModel(fig)
-        self.bokeh.add_class("pwmkit-plot")
-        self.bokeh.add_class("pwmkit-plot-candidates")
+        self.bokeh = live_plot(fig, "pwmkit-plot", "pwmkit-plot-candidates")  # reload-proof
 
     # -- search ----------------------------------------------------------------------------------
     @property

@@ -8,7 +8,7 @@ import ipywidgets as w
 
 from ..design import Design
 from ..origins import origin_text
-from ._base import Panel, esc, fmt, num, safe_callback
+from ._base import Panel, esc, safe_callback
 from .session import DesignSession, as_session
 
 __all__ = ["FindingsPanel", "CautionsBox", "findings_html", "cautions_html"]
@@ -17,21 +17,33 @@ _ORDER = {"fail": 0, "warn": 1, "ok": 2}
 
 
 def _number(x: Any, unit: str) -> str:
+    """A finding's value or bound with the one screen rule of :mod:`pwmkit.numstyle`."""
+    from ..numstyle import screen
+
     if x is None:
         return ""
-    if unit in ("%", "°C", "", "K", "points", "1"):
-        return num(x, ".4g", f" {unit}" if unit else "")
-    return fmt(x, unit, 3)
+    if unit == "points":
+        return screen(float(x) / 100.0, "points")
+    if unit in ("", "1"):
+        return screen(x, "ratio")
+    if unit in ("%", "°C", "K", "rpm"):
+        return screen(x, unit)
+    return screen(x, unit)
 
 
 def findings_html(findings: Any, *, show_ok: bool = True) -> str:
-    """Cards for the findings, worst first; severity as colour bar + symbol + word."""
+    """Cards for the findings, worst first; severity as colour bar + symbol + word.
+
+    Each card names what the value is compared with in the glossary's words ("limit" only for a
+    part's limit; "target", "minimum", "maximum" otherwise) and the check's source.
+    """
+    from .. import glossary as g
     from ..checks.findings import severity_style
 
     items = sorted(findings, key=lambda f: _ORDER.get(f.severity, 3))
     counts = {s: sum(1 for f in items if f.severity == s) for s in ("fail", "warn", "ok", "not-run")}
     summary = " · ".join(
-        f"<span class='pwmkit-count-{s}'>{severity_style(s)[1]} {n} {severity_style(s)[2]}</span>"
+        f"<span class='pwmkit-count-{s}'>{severity_style(s)[1]} {esc(g.severity_count(s, n))}</span>"
         for s, n in counts.items()
     )
     cards = []
@@ -40,18 +52,21 @@ def findings_html(findings: Any, *, show_ok: bool = True) -> str:
             continue  # "not run" entries are always listed
         colour, symbol, word = severity_style(f.severity)
         value = _number(f.value, f.unit)
-        limit = _number(f.limit, f.unit)
-        numbers = f"{esc(value)}" + (f" <span style='color:#5a6270'>(limit {esc(limit)})</span>" if limit else "")
+        bound = _number(f.limit, f.unit)
+        numbers = f"{esc(value)}" + (f" <span style='color:#5a6270'>({esc(g.bound_word(f.id))} {esc(bound)})</span>"
+                                     if bound else "")
         remedy = (f"<div class='pwmkit-remedy'><b>What to change:</b> {esc(f.remedy)}</div>"
-                  if f.remedy else "")
+                  if f.remedy and f.severity != "ok" else "")
         cards.append(
             f"<div class='pwmkit-finding pwmkit-sev-{esc(f.severity)}' data-id='{esc(f.id)}' "
             f"style='border-left:6px solid {colour};padding:4px 8px;margin:4px 0;background:#fbfbfa'>"
-            f"<div><b style='display:inline-block;min-width:6.5em'>{symbol} {esc(word).upper()}</b> "
-            f"<b>{esc(f.title)}</b> <code style='font-size:11px;color:#5a6270'>{esc(f.id)}</code>"
-            f"<span style='float:right'>{numbers}</span></div>"
+            f"<div style='display:flex;flex-wrap:wrap;gap:0 12px;align-items:baseline'>"
+            f"<b style='min-width:6.5em'>{symbol} {esc(word).upper()}</b> "
+            f"<b style='flex:1 1 auto'>{esc(f.title)}</b>"
+            f"<span class='pwmkit-q' style='white-space:nowrap'>{numbers}</span></div>"
             f"<div>{esc(f.explanation)}</div>{remedy}"
-            f"<div style='font-size:11px;color:#5a6270'>basis: {esc(origin_text(f.origin))}</div></div>"
+            f"<div style='font-size:11px;color:#5a6270'>{esc(g.SOURCE)}: {esc(origin_text(f.origin))} · "
+            f"rule <code style='font-size:11px'>{esc(f.id)}</code></div></div>"
         )
     if not cards:
         cards.append("<div style='color:#5a6270'>No warnings and no failures.</div>")
@@ -72,14 +87,16 @@ def cautions_html(cautions: Any, *, collapsed: bool = False) -> str:
     return ("<div class='pwmkit-cautions' role='note' style='border:1px solid #E69F00;border-left:6px solid "
             "#E69F00;padding:4px 10px;background:#fffaf0;font-size:12px'>"
             f"<details{'' if collapsed else ' open'}><summary style='cursor:pointer'><b>⚠ Cautions</b> — "
-            f"{titles}. Verify on the bench; follow local codes and licensed practice.</summary>"
+            f"{titles}</summary>"
             f"<ul style='margin:2px 0 2px 16px;padding:0'>{lis}</ul></details></div>")
 
 
 class CautionsBox(w.HTML):
     """The cautions of the session's current evaluation; follows the session.
 
-    ``collapsed`` shows only the caution titles until clicked (the dashboard's header box).
+    Once per view: the first box made for a session shows the cautions; later boxes on the same
+    session (panels put side by side) stay empty, so the cautions never appear twice.
+    ``collapsed`` shows only the caution titles until clicked.
     """
 
     def __init__(self, session: DesignSession, *, collapsed: bool = False) -> None:
@@ -87,6 +104,11 @@ class CautionsBox(w.HTML):
         self.add_class("pwmkit-cautions-box")
         self.collapsed = collapsed
         self.session = session
+        self.shown = not getattr(session, "_cautions_shown", False)
+        session._cautions_shown = True  # type: ignore[attr-defined]
+        if not self.shown:
+            self.layout.display = "none"
+            return
         session.subscribe(self.refresh)
         self.refresh(session.evaluation)
 

@@ -24,17 +24,14 @@ class ConditionsPanel(Panel):
 
     def __init__(self, session: DesignSession) -> None:
         super().__init__()
-        from jupyter_bokeh import BokehModel
-
         from ..plots.conditions import ConditionsPlot
+        from .tabs import live_plot
 
         self.session = session
         self.plot = ConditionsPlot()
         self.note = w.HTML()
         self.refresh(session.evaluation)  # first data before the widget is made
-        self.bokeh = BokehModel(self.plot.layout)
-        self.bokeh.add_class("pwmkit-plot")
-        self.bokeh.add_class("pwmkit-plot-conditions")
+        self.bokeh = live_plot(self.plot.layout, "pwmkit-plot", "pwmkit-plot-conditions")  # reload-proof
         self.set_body([self.note, self.bokeh])
         session.subscribe(self.follow)
 

@@ -28,23 +28,33 @@ def _pair(a: Any, b: Any, unit: str) -> str:
     return f"{fmt(a, unit)} / {fmt(b, unit)}"
 
 
-def led_html(led: Any, corners: Any, lightness: Any) -> str:
-    """LED currents, resistor power and rating, brightness."""
-    rating = "none fits — see the checks" if led.resistor_rating is None else f"{led.resistor_rating:g} W"
+def led_html(led: Any, corners: Any, lightness: Any, *, t_max_c: float | None = None,
+             supply_range: tuple[float, float] | None = None) -> str:
+    """LED currents, resistor power and rating (part rating and derated limit), brightness."""
+    from ..glossary import condition, plural, rating_text
+    from ..loads.led import resistor_derating
+
+    t_rating = led.t_ambient_c if t_max_c is None else t_max_c
+    derated = None
+    if led.resistor_rating is not None:
+        # usable share of the part's rating at that ambient (2× margin, common practice; IEC 60115-1 shape)
+        derated = 0.5 * float(resistor_derating(t_rating)) * float(led.resistor_rating)
     rows = [
-        ("strings × LEDs", f"{led.n_parallel} × {led.n_series} at {fmt(led.vf, 'V')} each"),
+        ("strings × LEDs", f"{plural(led.n_parallel, 'string')} × {plural(led.n_series, 'LED')} at "
+                           f"{fmt(led.vf, 'V')} each"),
         ("headroom for the resistor", fmt(led.headroom, "V")),
         ("peak current per string / all strings", _pair(led.i_peak, led.i_peak_total, "A")),
         ("average current per string / all strings", _pair(led.i_avg, led.i_avg_total, "A")),
         ("resistor power while on / average", _pair(led.p_resistor_on, led.p_resistor_avg, "W")),
-        (f"resistor rating ({led.rating_basis}, derated at {led.t_ambient_c:g} °C)", rating),
+        (f"resistor rating ({led.rating_basis} power)", rating_text(led.resistor_rating, derated, t_rating)),
         ("power per LED while on / average", _pair(led.p_led_on, led.p_led_avg, "W")),
         (f"peak current with V_F ∓ {led.dvf:g} V per LED", _pair(led.i_peak_at_vf_min, led.i_peak_at_vf_max, "A")),
     ]
     if corners is not None:
         low = DASH if corners.low is None else fmt(corners.low.i_peak, "A")
         high = DASH if corners.high is None else fmt(corners.high.i_peak, "A")
-        rows.append(("peak current per string at lowest / highest supply", f"{low} / {high}"))
+        where = "" if supply_range is None else f" ({condition(vcc=supply_range[0])} / {fmt(supply_range[1], 'V')})"
+        rows.append((f"peak current per string at lowest / highest supply{where}", f"{low} / {high}"))
     if lightness is not None:
         rows.append(("perceived brightness (CIE L*) at this duty", num(lightness, ".3g", " of 100")))
     html = _table("LED string", rows, "pwmkit-led")
@@ -55,17 +65,22 @@ def led_html(led: Any, corners: Any, lightness: Any) -> str:
 
 def steps_html(steps: Any, duty_range: tuple[float, float]) -> str:
     """Perceptually even brightness steps and whether the control reaches each duty."""
+    from ..numstyle import screen, screen_range
+
     lo, hi = duty_range
     rows = []
     for k, lstar, duty in zip(steps.step, steps.lstar, steps.duty):
         ok = lo - 1e-12 <= duty <= hi + 1e-12
         mark = "✔ reachable" if ok else "✖ outside the control range"
-        rows.append(f"<tr><td>{int(k)}</td><td>{num(lstar, '.1f')}</td><td>{num(100 * duty, '.3g', ' %')}</td><td>{mark}</td></tr>")
-    return ("<table class='pwmkit-steps' style='font-size:12px;border-collapse:collapse'>"
+        rows.append(f"<tr><td>{int(k)}</td><td>{num(lstar, '.1f')}</td><td>{esc(screen(duty, 'duty'))}</td>"
+                    f"<td>{mark}</td></tr>")
+    cell = "padding:1px 10px;text-align:right;font-variant-numeric:tabular-nums"
+    return ("<style>.pwmkit-steps td, .pwmkit-steps th {" + cell + "} .pwmkit-steps td:last-child {text-align:left}"
+            "</style><table class='pwmkit-steps' style='font-size:12px;border-collapse:collapse'>"
             "<caption style='text-align:left;font-weight:600'>Even brightness steps (CIE 1976 L*)</caption>"
             "<tr><th>step</th><th>L*</th><th>duty</th><th></th></tr>" + "".join(rows) +
-            f"</table><div style='font-size:11px;color:#5a6270'>The control reaches {num(100 * lo, '.3g')} … "
-            f"{num(100 * hi, '.4g')} % duty; smallest step needed: {num(100 * steps.min_duty_increment, '.3g')} %.</div>")
+            f"</table><div style='font-size:11px;color:#5a6270'>The control reaches {esc(screen_range(lo, hi, 'duty'))} "
+            f"duty; smallest step needed: {esc(screen(steps.min_duty_increment, 'duty'))}.</div>")
 
 
 def motor_html(motor: Any, speed: Any, stall: Any) -> str:
@@ -108,7 +123,10 @@ def mosfet_html(gate: Any, losses: Any, t_thermal_c: float, gate_error: str | No
     return html
 
 
-def freewheel_html(diode: Any, clamp: Any, t_thermal_c: float) -> str:
+def freewheel_html(diode: Any, clamp: Any, t_thermal_c: float, conditions: Any = None) -> str:
+    """Freewheel diode figures; the drain peak at the nominal and at the highest load supply."""
+    from ..glossary import condition
+
     rows: list[tuple[str, str]] = []
     if diode is not None:
         rows += [("diode", diode.diode.name),
@@ -119,7 +137,12 @@ def freewheel_html(diode: Any, clamp: Any, t_thermal_c: float) -> str:
                  ("current rating / need", num(min(float(diode.current_ratio), 1e6), ".3g", " ×")),
                  ("all ratings", "✔ met" if bool(diode.ok) else "✖ not met")]
     if clamp is not None:
-        rows += [("drain peak at turn-off", fmt(clamp.v_switch_peak, "V")),
+        peak = fmt(clamp.v_switch_peak, "V")
+        if conditions is not None and conditions.v_clamp is not None:
+            v_nom, v_max = conditions.load_supply, conditions.load_supply_max
+            peak = (f"{peak} {condition(vcc=v_nom, what='nominal')}; {fmt(v_max + conditions.v_clamp, 'V')} "
+                    f"{condition(vcc=v_max, what='highest supply')}")
+        rows += [("drain peak at turn-off (supply plus clamp)", peak),
                  ("current decays in", fmt(clamp.t_zero, "s")),
                  ("energy into the clamp per turn-off", fmt(clamp.clamp_energy, "J"))]
     html = _table("Freewheel diode", rows, "pwmkit-freewheel")
@@ -147,9 +170,8 @@ class LoadsPanel(Panel):
 
     def __init__(self, design: Design | DesignSession, *, show_cautions: bool = True) -> None:
         super().__init__()
-        from jupyter_bokeh import BokehModel
-
         from ..plots.loads import LossBarsPlot, MotorCurrentPlot
+        from .tabs import live_plot
 
         self.session = as_session(design)
         self.load_html = w.HTML()
@@ -164,11 +186,9 @@ class LoadsPanel(Panel):
         self.losses_box = w.VBox()
         self.freewheel = w.HTML()
         self.refresh(self.session.evaluation)  # first data before the widgets are made (see views._bokeh)
-        self.motor_bokeh = BokehModel(self.motor_plot.layout)
-        self.motor_bokeh.add_class("pwmkit-plot-motor")
+        self.motor_bokeh = live_plot(self.motor_plot.layout, "pwmkit-plot", "pwmkit-plot-motor")
         self.motor_box.children = (self.motor_bokeh,)
-        self.losses_bokeh = BokehModel(self.losses.layout)
-        self.losses_bokeh.add_class("pwmkit-plot-losses")
+        self.losses_bokeh = live_plot(self.losses.layout, "pwmkit-plot", "pwmkit-plot-losses")
         self.losses_box.children = (self.losses_bokeh,)
         left = w.VBox([self.load_html, self.led_box, self.motor_box],
                       layout=w.Layout(min_width="420px", margin="0 16px 0 0"))
@@ -187,7 +207,9 @@ class LoadsPanel(Panel):
         if ev.led is not None:
             from ..loads.lightness import even_duty_steps
 
-            self.load_html.value = led_html(ev.led, ev.led_corners, ev.lightness)
+            self.load_html.value = led_html(ev.led, ev.led_corners, ev.lightness,
+                                            t_max_c=self.session.design.t_ambient_max_c,
+                                            supply_range=(cond.load_supply_min, cond.load_supply_max))
             self.steps_html.value = steps_html(even_duty_steps(int(self.steps.value)), cond.duty_reachable)
             self.led_box.layout.display = None
         else:
@@ -212,5 +234,6 @@ class LoadsPanel(Panel):
             self.losses_box.layout.display = None
         else:
             self.losses_box.layout.display = "none"
-        self.freewheel.value = freewheel_html(ev.freewheel, ev.clamp, cond.t_thermal_c) if ev.motor is not None else ""
+        self.freewheel.value = (freewheel_html(ev.freewheel, ev.clamp, cond.t_thermal_c, cond)
+                                if ev.motor is not None else "")
         self.clear_message()

@@ -48,7 +48,7 @@ class SchematicPanel(Panel):
     def __init__(self, design: Design | DesignSession, *, debounce: float = 0.3) -> None:
         super().__init__()
         self.session = as_session(design)
-        self.svg = w.HTML(layout=w.Layout(width="100%", overflow="auto"))
+        self.svg = w.HTML(layout=w.Layout(width="calc(100% - 6px)"))  # 2 px margins; the SVG scales to fit
         self.svg.add_class("pwmkit-schematic-svg")
         self.redraws = 0
         self._debounced = Debouncer(self._draw, debounce)

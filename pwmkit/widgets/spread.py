@@ -13,7 +13,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import Debouncer, Panel, esc, fmt, fmt_pct, safe_callback
+from ._base import Debouncer, Panel, esc, safe_callback
 from .session import DesignSession, as_session
 
 __all__ = ["SpreadPanel", "spread_summary_html"]
@@ -21,24 +21,26 @@ __all__ = ["SpreadPanel", "spread_summary_html"]
 
 def spread_summary_html(spread: Any, worst: Any) -> str:
     """Key figures of a spread run and the worst case as a small table."""
+    from ..glossary import plural
+    from ..numstyle import screen, screen_range
+
     rows = [
-        ("samples", f"{spread.n}" + (f" ({spread.n_failed} do not oscillate)" if spread.n_failed else "")),
-        ("frequency mean ± σ", f"{fmt(spread.frequency_mean, 'Hz', 5)} ± {fmt(spread.frequency_std, 'Hz', 3)}"),
-        ("duty mean ± σ", f"{fmt_pct(spread.duty_mean, 5)} ± {fmt_pct(spread.duty_std, 3)}"),
+        ("samples", screen(spread.n, "count") + (f" ({plural(spread.n_failed, 'sample')} do not oscillate)"
+                                                 if spread.n_failed else "")),
+        ("frequency mean ± σ", f"{screen(spread.frequency_mean, 'Hz')} ± {screen(spread.frequency_std, 'Hz', 3)}"),
+        ("duty mean ± σ", f"{screen(spread.duty_mean, 'duty')} ± {screen(spread.duty_std, 'points').lstrip('+')}"),
     ]
     if worst is not None:
         rows += [
-            ("worst-case frequency", f"{fmt(worst.frequency_min, 'Hz', 5)} … {fmt(worst.frequency_max, 'Hz', 5)}"),
-            ("worst-case duty", f"{fmt_pct(worst.duty_min, 5)} … {fmt_pct(worst.duty_max, 5)}"),
+            ("worst-case frequency", screen_range(worst.frequency_min, worst.frequency_max, "Hz")),
+            ("worst-case duty", screen_range(worst.duty_min, worst.duty_max, "duty")),
         ]
     if spread.frequency_window is not None:
-        lo, hi = spread.frequency_window
-        rows.append(("required frequency", f"{fmt(lo, 'Hz', 4)} … {fmt(hi, 'Hz', 4)}"))
+        rows.append(("required frequency", screen_range(*spread.frequency_window, "Hz")))
     if spread.duty_window is not None:
-        lo, hi = spread.duty_window
-        rows.append(("required duty", f"{fmt_pct(lo, 4)} … {fmt_pct(hi, 4)}"))
+        rows.append(("required duty", screen_range(*spread.duty_window, "duty")))
     if spread.yield_ is not None:
-        rows.append(("yield (inside the requirement window)", fmt_pct(spread.yield_, 5)))
+        rows.append(("yield (inside the requirement window)", screen(spread.yield_, "duty")))
     body = "".join(f"<tr><th style='text-align:left;font-weight:normal;color:#5a6270;padding-right:12px'>"
                    f"{esc(k)}</th><td class='pwmkit-q'>{esc(v)}</td></tr>" for k, v in rows)
     sources = "; ".join(getattr(spread, "sources", ()) or ())
@@ -62,13 +64,13 @@ class SpreadPanel(Panel):
 
     def __init__(self, design: Design | DesignSession, *, debounce: float = 0.8) -> None:
         super().__init__()
-        from jupyter_bokeh import BokehModel
-
         from ..plots.spread import SpreadPlot
+        from .tabs import live_plot
 
         self.session = as_session(design)
         self.run = w.Button(description="Run Monte Carlo", icon="play", button_style="",
-                            tooltip="sample every tolerance, the supply range and the ambient range")
+                            tooltip="sample every tolerance, the supply range and the ambient range",
+                            layout=w.Layout(width="auto", min_width="150px"))
         self.run.add_class("pwmkit-run-spread")
         self.samples = w.Dropdown(options=(("2 000 samples", 2000), ("20 000 samples", 20_000),
                                            ("100 000 samples", 100_000)),
@@ -85,11 +87,10 @@ class SpreadPanel(Panel):
         else:
             self.plot.clear("press “Run Monte Carlo”")
             self.status.value = "<i>not run yet</i>"
-        self.bokeh = BokehModel(self.plot.layout)
-        self.bokeh.add_class("pwmkit-plot-spread")
+        self.bokeh = live_plot(self.plot.layout, "pwmkit-plot", "pwmkit-plot-spread")
         self._debounced = Debouncer(self._run_safely, debounce)
         self.set_body([w.HBox([self.run, self.samples, self.follow, self.status],
-                              layout=w.Layout(align_items="center")), self.summary, self.bokeh])
+                              layout=w.Layout(align_items="center", flex_flow="row wrap")), self.summary, self.bokeh])
         self.run.on_click(lambda _b: self._run_safely())
         self.samples.observe(self._on_samples, names="value")
         self.follow.observe(self._on_follow, names="value")

@@ -1,5 +1,5 @@
 """Timing panel: topology, component values (text + slider, optional E-series snap), supply, timer
-family, steering diode; readouts of the exact and the textbook (ln 2) timing side by side."""
+family, steering diode; the readout of the exact model beside the 0.693 estimate."""
 
 from __future__ import annotations
 
@@ -10,7 +10,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import DASH, GENERIC_MESSAGE, Panel, esc, fmt, fmt_pct, log, safe_callback
+from ._base import DASH, GENERIC_MESSAGE, Panel, esc, log, safe_callback
 from .entry import SNAP_CHOICES, ValueEntry
 from .session import DesignSession, as_session
 
@@ -24,56 +24,71 @@ _TOPOLOGY_LABELS = (
 )
 
 
-def _rel(a: Any, b: Any) -> str:
+def _diff(name: str, a: Any, b: Any) -> str:
+    """Exact vs estimate: relative percent for times and frequency, percentage points for the duty."""
+    from ..numstyle import screen
+
     try:
         a, b = float(a), float(b)
     except (TypeError, ValueError):
         return DASH
-    if not (math.isfinite(a) and math.isfinite(b)) or b == 0:
+    if not (math.isfinite(a) and math.isfinite(b)):
         return DASH
-    return fmt_pct(a / b - 1.0, 3, signed=True)
+    if name == "duty":
+        return screen(a - b, "points")
+    if b == 0:
+        return DASH
+    return screen(a / b - 1.0, "relative")
 
 
 def timing_readout_html(exact: Any, ideal: Any) -> str:
-    """HTML table: t_high, t_low, frequency, duty — exact, textbook (ln 2) and their difference.
+    """HTML table: t_high, t_low, frequency, duty — exact model, 0.693 estimate and their difference.
 
-    Each value cell carries ``data-q`` (quantity name) and ``data-kind`` ("exact"/"ideal") so
-    notebooks and browser tests can read it.
+    Times and frequency differ in relative percent, the duty in percentage points
+    (:mod:`pwmkit.glossary`). Each value cell carries ``data-q`` (quantity name) and ``data-kind``
+    ("exact"/"ideal") so notebooks and browser tests can read it.
     """
+    from .. import glossary as g
+    from ..numstyle import screen
+
     rows = (
         ("t_high", "output high (charge)", "s"),
         ("t_low", "output low (discharge)", "s"),
         ("frequency", "frequency", "Hz"),
-        ("duty", "duty", "%"),
+        ("duty", "duty", "duty"),
     )
 
-    def cell(result: Any, name: str, unit: str, kind: str) -> str:
+    def cell(result: Any, name: str, kind_of: str, kind: str) -> str:
         value = getattr(result, name, None) if result is not None else None
-        text = fmt_pct(value, 5) if unit == "%" else fmt(value, unit, 5)
-        return f"<td class='pwmkit-q' data-q='{name}' data-kind='{kind}'>{esc(text)}</td>"
+        return f"<td class='pwmkit-q' data-q='{name}' data-kind='{kind}'>{esc(screen(value, kind_of))}</td>"
 
     body = "".join(
         f"<tr><th>{esc(label)}</th>{cell(exact, name, unit, 'exact')}{cell(ideal, name, unit, 'ideal')}"
         f"<td class='pwmkit-diff' data-q='{name}'>"
-        f"{esc(_rel(getattr(exact, name, None), getattr(ideal, name, None)) if ideal is not None else DASH)}</td></tr>"
+        f"{esc(_diff(name, getattr(exact, name, None), getattr(ideal, name, None)) if ideal is not None else DASH)}</td></tr>"
         for name, label, unit in rows
     )
     return (
         "<table class='pwmkit-readout' style='border-collapse:collapse;font-size:13px'>"
-        "<thead><tr><th></th><th title='sympy-derived closed form with diode drop, switch and control pin'>"
-        "exact model</th><th title='ideal parts, internal divider: the 0.693·R·C forms'>textbook ln 2</th>"
-        "<th>exact vs textbook</th></tr></thead>"
-        f"<tbody>{body}</tbody></table>"
+        f"<thead><tr><th></th><th title='{esc(g.EXACT_NOTE)}'>{esc(g.EXACT)}</th>"
+        f"<th title='{esc(g.ESTIMATE_NOTE)}'>{esc(g.ESTIMATE)}</th>"
+        f"<th title='times and frequency: relative difference; duty: {esc(g.POINTS_LONG)}'>{esc(g.DIFFERENCE)}</th>"
+        f"</tr></thead><tbody>{body}</tbody></table>"
     )
 
 
 _READOUT_CSS = """<style>
-.pwmkit-readout th, .pwmkit-readout td {padding:2px 10px; text-align:right; border-bottom:1px solid #e6e8eb}
+.pwmkit-readout th, .pwmkit-readout td {padding:3px 10px; text-align:right; border-bottom:1px solid #e6e8eb;
+  white-space:nowrap; font-variant-numeric:tabular-nums}
 .pwmkit-readout tbody th {text-align:left; font-weight:normal; color:#5a6270}
 .pwmkit-readout thead th {font-weight:600; color:#1f2328}
 .pwmkit-heading {font-weight:700; font-size:14px; color:#1f2328; margin:4px 0 2px 0;
                  border-bottom:2px solid #0072B2; padding-bottom:2px}
 .pwmkit-entry .widget-text input {font-family: ui-monospace, monospace}
+.pwmkit-entry.pwmkit-invalid .widget-text input {border:2px solid #D55E00; background:#fff3e8}
+.pwmkit-field-msg {font-size:12px; color:#8a2d00; margin:0 0 4px 112px; max-width:330px; white-space:normal}
+.pwmkit-timing .widget-toggle-buttons .widget-toggle-button {width:auto; padding:0 8px}
+.pwmkit-timing .widget-dropdown select {min-width:0}
 </style>"""
 
 
@@ -103,7 +118,7 @@ class TimingPanel(Panel):
     css_name = "timing"
     message_lead = "Not applied"
 
-    def __init__(self, design: Design | DesignSession) -> None:
+    def __init__(self, design: Design | DesignSession, *, show_readout: bool = True) -> None:
         super().__init__()
         self.session = as_session(design)
         d = self.session.design
@@ -112,29 +127,33 @@ class TimingPanel(Panel):
         self._pot_memory = float(t.pot) if t.pot is not None else self._pot_default(t.ra, t.rb)
         self._wiper_memory = float(t.wiper) if t.wiper is not None else 0.5
 
-        self.topology = w.ToggleButtons(options=_TOPOLOGY_LABELS, value=t.topology, style={"button_width": "132px"},
+        self.topology = w.ToggleButtons(options=_TOPOLOGY_LABELS, value=t.topology, style={"button_width": "auto"},
                                         tooltips=["ra + rb charge, rb discharges", "a diode bypasses rb while charging",
                                                   "separate charge and discharge diodes",
                                                   "a pot splits its track between charge and discharge"])
         self.snap = w.Dropdown(options=SNAP_CHOICES, value="exact", description="snap to",
-                               layout=w.Layout(width="170px"), style={"description_width": "56px"})
-        self.timer = w.Dropdown(options=(("bipolar", "bipolar"), ("CMOS", "cmos")), value=t.timer,
-                                description="timer", layout=w.Layout(width="170px"),
-                                style={"description_width": "56px"})
+                               layout=w.Layout(width="150px"), style={"description_width": "52px"})
+        from ..glossary import TIMER_LABELS
+
+        self.timer = w.Dropdown(options=tuple((label, key) for key, label in TIMER_LABELS.items()), value=t.timer,
+                                description="timer", layout=w.Layout(width="150px"),
+                                style={"description_width": "40px"})
+        from ..glossary import diode_label
         from ..parts.diodes import DIODES
 
-        diodes = tuple(DIODES)
-        if t.diode not in diodes:
-            diodes = (t.diode, *diodes)
+        families = tuple(DIODES)
+        if t.diode not in families:
+            families = (t.diode, *families)
+        diodes = tuple((diode_label(k), k) for k in families)
         self.diode = w.Dropdown(options=diodes, value=t.diode, description="diodes",
-                                layout=w.Layout(width="250px"), style={"description_width": "56px"})
+                                layout=w.Layout(width="236px"), style={"description_width": "48px"})
         for ctl in (self.topology, self.snap, self.timer, self.diode):
             ctl.add_class("pwmkit-choice")
         self.topology.add_class("pwmkit-topology")
         self.snap.add_class("pwmkit-snap")
 
         def entry(name: str, label: str, unit: str, value: float, **kw: Any) -> ValueEntry:
-            return ValueEntry(name, label, unit, value, handler=self._on_entry, report=self.show_message, **kw)
+            return ValueEntry(name, label, unit, value, handler=self._on_entry, **kw)
 
         self.entries: dict[str, ValueEntry] = {
             "ra": entry("ra", "R<sub>A</sub> (charge)", "Ω", t.ra, log_range=(100.0, 1e6), snappable=True,
@@ -151,9 +170,11 @@ class TimingPanel(Panel):
         }
         if t.rb == 0:
             self.entries["rb"].set_value(0.0)
-        self.wiper = w.FloatSlider(value=self._wiper_memory, min=0.0, max=1.0, step=0.005, description="wiper",
-                                   readout=True, readout_format=".3f", continuous_update=True,
-                                   layout=w.Layout(width="474px"), style={"description_width": "108px"})
+        # on screen the wiper is a percentage of the travel, like every duty; the design holds 0 … 1
+        self.wiper = w.FloatSlider(value=100.0 * self._wiper_memory, min=0.0, max=100.0, step=0.5,
+                                   description="wiper [%]", readout=True, readout_format=".1f",
+                                   continuous_update=True, layout=w.Layout(width="420px"),
+                                   style={"description_width": "108px"})
         self.wiper.add_class("pwmkit-wiper")
         self.readout = w.HTML(layout=w.Layout(margin="6px 0 0 0"))
         self.readout.add_class("pwmkit-readout-box")
@@ -165,13 +186,14 @@ class TimingPanel(Panel):
         self.diode.observe(self._on_choice, names="value")
         self.wiper.observe(self._on_wiper, names="value")
 
+        choices = w.HBox([self.snap, self.timer, self.diode], layout=w.Layout(flex_flow="row wrap"))
         self.set_body([
             self._style,
             self.topology,
-            w.HBox([self.snap, self.timer, self.diode]),
+            choices,
             self.entries["ra"], self.entries["rb"], self.entries["pot"], self.wiper, self.entries["c"],
             self.entries["vcc"],
-            self.readout,
+            *([self.readout] if show_readout else []),
         ])
         self._show_pot(t.topology == "pot")
         self.session.subscribe(self.refresh)
@@ -204,10 +226,10 @@ class TimingPanel(Panel):
             with self.hold_sync():
                 self.topology.value = t.topology
                 self.timer.value = t.timer
-                if t.diode in self.diode.options:
+                if t.diode in [key for _label, key in self.diode.options]:
                     self.diode.value = t.diode
                 if t.topology == "pot":
-                    self.wiper.value = float(t.wiper)
+                    self.wiper.value = 100.0 * float(t.wiper)
         finally:
             self._syncing = False
         for name in ("ra", "rb", "c"):
@@ -233,30 +255,31 @@ class TimingPanel(Panel):
         return design.replace(**changes)
 
     def _on_entry(self, name: str, value: float) -> str | None:
-        """Handler of the value entries: None when accepted, else the reason (also shown here)."""
+        """Handler of the value entries: None when accepted, else the reason (the entry shows it at the field)."""
         try:
             if name == "vcc":
-                ok = self._apply(lambda d: self._with_supply(d, value))
+                verdict = self.session.edit(lambda d: self._with_supply(d, value))
             elif name == "pot" and self.session.design.timing.topology != "pot":
                 self._pot_memory = value  # remembered for the next switch to the pot topology
                 return None
             else:
-                ok = self._apply(lambda d: d.with_timing(**{name: value}))
-                if ok and name == "pot":
+                verdict = self.session.edit(lambda d: d.with_timing(**{name: value}))
+                if verdict is None and name == "pot":
                     self._pot_memory = value
         except Exception:  # never raise into the widget machinery
             log.exception("pwmkit: timing entry %s failed", name)
-            self.show_message(GENERIC_MESSAGE)
             return GENERIC_MESSAGE
-        return None if ok else (self.message_text or "rejected")
+        if verdict is None:
+            self.clear_message()
+        return verdict
 
     @safe_callback
     def _on_wiper(self, change: dict[str, Any]) -> None:
         t = self.session.design.timing
         if self._syncing or t.topology != "pot":
             return
-        value = float(change["new"])
-        if abs(value - float(t.wiper)) <= 0.5 * self.wiper.step + 1e-12:
+        value = float(change["new"]) / 100.0
+        if abs(value - float(t.wiper)) <= 0.5 * self.wiper.step / 100.0 + 1e-12:
             return  # the front end's rounding of the design's wiper to the slider grid, not a move
         if self._apply(lambda d: d.with_timing(wiper=value)):
             self._wiper_memory = value
@@ -318,14 +341,20 @@ class TimingPanel(Panel):
         """Programmatic edit, as if typed: ``panel.set_value("c", "3n3")``. Returns the rejection reason or None."""
         from ..values import parse_value
 
-        if name == "wiper":
-            self.wiper.value = float(value)
+        if name == "wiper":  # a fraction of the travel, 0 … 1, as in the design
+            self.wiper.value = 100.0 * float(value)
             return self.message_text or None
         if name not in self.entries:
             raise KeyError(f"unknown field {name!r}; known: {', '.join(self.entries)}, wiper")
         entry = self.entries[name]
         entry.text.value = value if isinstance(value, str) else format(float(parse_value(value)), "g")
-        return self.message_text or None
+        return entry.message_text or None
+
+    @property
+    def message_text(self) -> str:
+        """The panel's message and the messages at its fields, as plain text ("" when none)."""
+        texts = [super().message_text] + [e.message_text for e in self.entries.values()]
+        return " ".join(t for t in texts if t)
 
 
 def design_fields(design: Design) -> dict[str, Any]:

@@ -17,15 +17,12 @@ __all__ = ["WaveformPanel", "PotTravelPanel", "FlickerPanel"]
 def _bokeh(layout: Any, css: str) -> Any:
     """Wrap a bokeh layout in a live widget.
 
-    Call this only after the plot holds its first data: jupyter_bokeh renders a new view from the
-    state serialised here, and changes made before a view exists never reach it.
+    The widget is a :class:`~pwmkit.widgets.tabs.LivePlot`: a front end that connects later (a
+    reloaded page) is sent the plot as it is then, not as it was when the widget was made.
     """
-    from jupyter_bokeh import BokehModel
+    from .tabs import live_plot
 
-    model = BokehModel(layout)
-    model.add_class("pwmkit-plot")
-    model.add_class(css)
-    return model
+    return live_plot(layout, "pwmkit-plot", css)
 
 
 class WaveformPanel(Panel):
@@ -60,8 +57,12 @@ class WaveformPanel(Panel):
 
     @safe_callback
     def refresh(self, evaluation: Any) -> None:
-        self.plot.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor, cycles=self.cycles)
+        self.plot.update(evaluation.timing, led=evaluation.led, motor=evaluation.motor, cycles=self.cycles,
+                         v_out_high=output_high_level(self.session.design, evaluation))
         self.clear_message()
+
+
+from ..plots.waveforms import output_high_level  # noqa: E402 - kept importable from here
 
 
 class PotTravelPanel(Panel):
@@ -100,23 +101,27 @@ class PotTravelPanel(Panel):
         self.plot.show_requirements(self.session.design.requirements.frequency_window,
                                     None if spec is None else spec[1:])
         (d0, d1), (f0, f1) = travel.duty_range, travel.frequency_range
-        self.note.value = (f"<span class='pwmkit-q'>Duty reaches {num(100 * d0, '.3g')} … {num(100 * d1, '.4g')} % while the "
-                           f"frequency moves {esc(fmt(f0, 'Hz'))} … {esc(fmt(f1, 'Hz'))}.</span>")
+        from ..numstyle import screen_range
+
+        self.note.value = (f"<span class='pwmkit-q'>Duty reaches {esc(screen_range(d0, d1, 'duty'))} while the "
+                           f"frequency moves {esc(screen_range(f0, f1, 'Hz'))}.</span>")
         self.plot_box.layout.display = None
         self.clear_message()
 
 
 def flicker_html(flicker: Any, required: str | None) -> str:
     """Summary lines of a :class:`pwmkit.loads.flicker.PwmFlicker` and the requirement."""
+    from ..glossary import flicker_label
+
     klass = flicker.classification
     req = ""
     if required is not None:
         order = ("no-effect", "low-risk", "elevated")
         met = order.index(klass) <= order.index(required)
-        req = (f"<br>Requirement: <b>{esc(required)}</b> — "
+        req = (f"<br>Requirement: <b>{esc(flicker_label(required))}</b> — "
                f"{'✔ met' if met else '✖ not met'}")
     return (f"<div class='pwmkit-flicker-summary' style='font-size:13px'>IEEE 1789 region of the design point: "
-            f"<b class='pwmkit-flicker-class'>{esc(klass.replace('-', ' '))}</b> "
+            f"<b class='pwmkit-flicker-class'>{esc(flicker_label(klass))}</b> "
             f"({num(flicker.modulation_percent, '.3g')} % modulation at {esc(fmt(flicker.frequency, 'Hz'))}, "
             f"flicker index {num(flicker.flicker_index, '.3g')}). Full on/off PWM has no observable effect above "
             f"{esc(fmt(flicker.frequency_for_no_effect, 'Hz'))}.{req}</div>")

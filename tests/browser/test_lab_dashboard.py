@@ -107,7 +107,7 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
         arg=v_cap_0, timeout=20_000)
     # the pot-travel marker's update arrives in its own message, after the waveform's
     page.wait_for_function(f"() => {{ const m = ({READ_SOURCE})(['pwmkit-pot-marker', 'wiper']);"
-                           " return m !== null && m[0] > 0.5; }", timeout=20_000)
+                           " return m !== null && m[0] > 50.0; }", timeout=20_000)  # percent of the travel
     dash.locator(".pwmkit-plot-waveforms").first.screenshot(path=str(artifacts / "lab_waveforms_after_slider.png"))
 
     # 1b — how long one slider step takes to reach the readout and the plot data (printed, not asserted:
@@ -158,7 +158,7 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     t_good = page.evaluate(f"({READ_SOURCE})(['pwmkit-waveform', 't'])")
     c_field.fill("10q")
     c_field.press("Enter")
-    message = dash.locator(".pwmkit-timing .pwmkit-msg")
+    message = dash.locator(".pwmkit-timing .pwmkit-entry-c .pwmkit-field-msg")
     expect(message).to_contain_text("10q", timeout=20_000)
     expect(message).to_be_visible()
     page.wait_for_timeout(500)
@@ -167,11 +167,11 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     dash.locator(".pwmkit-timing").first.screenshot(path=str(artifacts / "lab_timing_bad_value.png"))
 
     # 4 — the schematic (debounced redraw on the kernel's event loop) follows a slider move
-    dash.locator(".lm-TabBar-tabLabel", has_text="Schematic").first.click()
+    dash.locator(".pwmkit-tabbar button", has_text="Schematic").first.click()
     svg = dash.locator(".pwmkit-schematic-svg svg").first
     expect(svg).to_be_visible(timeout=20_000)
     wiper_text = dash.locator(".pwmkit-wiper .widget-readout").first.inner_text()
-    label = f"wiper {round(100 * float(wiper_text)):g} %"
+    label = f"wiper {round(float(wiper_text)):g} %"  # the slider reads percent of the travel
     expect(dash.locator(".pwmkit-schematic-svg")).to_contain_text(label, timeout=20_000)
     handle.focus()
     for _ in range(4):

@@ -48,7 +48,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
         expect(readout).not_to_be_empty(timeout=30_000)
 
         # 1 — type the requirements
-        dash.locator(".lm-TabBar-tabLabel", has_text="Requirements").first.click()
+        dash.locator(".pwmkit-tabbar button", has_text="Requirements").first.click()
         for css, text in ((".pwmkit-req-frequency", "25k"), (".pwmkit-req-tolerance", "35 %")):
             field = dash.locator(f"{css} input").first
             field.scroll_into_view_if_needed()
@@ -59,7 +59,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
         expect(dash.locator(".pwmkit-requirement-band")).to_contain_text("16.25 kHz", timeout=20_000)
 
         # 2 — run the search (worker thread; the page stays live)
-        dash.locator(".lm-TabBar-tabLabel", has_text="Candidates").first.click()
+        dash.locator(".pwmkit-tabbar button", has_text="Candidates").first.click()
         dash.locator(".pwmkit-find button, button.pwmkit-find").first.click()
         expect(dash.locator(".pwmkit-cand-status")).to_contain_text("meet the criterion", timeout=120_000)
         expect(dash.locator(".pwmkit-cand-table tr.pwmkit-cand").first).to_be_visible(timeout=20_000)
@@ -84,7 +84,7 @@ def test_own_design_requirements_search_adopt_save_reopen(lab, page, artifacts):
         dash.locator(".pwmkit-file-revert button, button.pwmkit-file-revert").first.click()
         page.wait_for_timeout(1000)
         expect(readout).to_have_text(adopted, timeout=20_000)
-        dash.locator(".lm-TabBar-tabLabel", has_text="Requirements").first.click()
+        dash.locator(".pwmkit-tabbar button", has_text="Requirements").first.click()
         expect(dash.locator(".pwmkit-req-frequency input").first).to_have_value("25 kHz", timeout=20_000)
         expect(dash.locator(".pwmkit-file-mark .pwmkit-saved")).to_be_visible(timeout=20_000)
         page.screenshot(path=str(artifacts / "lab_own_design_final.png"), full_page=False)

@@ -299,7 +299,7 @@ def test_repr_and_html() -> None:
     ev = FULL["grow-bar"]
     assert "grow-bar" in repr(ev) and "Hz" in repr(ev)
     page = ev._repr_html_()
-    for text in ("Timing", "textbook ln 2", "Output stage and load", "design-rule checks", "Cautions", "Eye safety",
+    for text in ("Timing", "0.693 estimate", "Output stage and load", "design-rule checks", "Cautions", "Eye safety",
                  "tolerance spread", "IEEE 1789"):
         assert text in page, text
     # a warning is shown with a word and symbol, not colour alone

@@ -37,18 +37,43 @@ def test_report_has_every_section_and_the_computed_numbers(fan_report: tuple[Any
                 "cautions"):
         assert f"<section id='{sid}'>" in page
     text = html.unescape(page)
-    # exact timing and the 0.693 estimate, as computed (format_value, 5 digits)
-    assert format_value(float(ev.timing.frequency), "Hz", 5) in text
-    assert format_value(float(ev.ideal.frequency), "Hz", 5) in text
-    assert f"{ev.findings.fail_count} fail · {ev.findings.warn_count} warn · {ev.findings.ok_count} ok" in text
+    # exact timing and the 0.693 estimate, as computed (the screen rule: 4 significant figures)
+    assert format_value(float(ev.timing.frequency), "Hz", 4) in text
+    assert format_value(float(ev.ideal.frequency), "Hz", 4) in text
+    assert "0.693 estimate" in text and "textbook ln 2" not in text
+    assert "pt</td>" in text  # the duty difference in percentage points
+    assert f"{ev.findings.fail_count} failures · {ev.findings.warn_count} warnings · {ev.findings.ok_count} passed" in text
     for f in ev.findings:
         assert f.id in text
+    # cautions: a short summary at the top and the full texts at the end
+    summary_at, section_at = text.index("caution-summary"), text.index("<section id='cautions'>")
+    assert summary_at < text.index("<section id='requirements'>") < section_at
     for c in ev.cautions:
-        assert c.title in text
+        assert c.title in text[summary_at:text.index("<section id='requirements'>")]
+        assert c.text in text[section_at:]
     assert "<svg" in page  # the schematic
     assert "<math" in page and "LaTeX source" in page  # formulas, MathML and LaTeX source
     assert "R1" in text and "E24" in text and "C0G/NP0 ceramic" in text  # parts with their series
     assert "yield inside the requirement window" in text
+
+
+def test_report_header_names_source_hash_date_version_and_revision(tmp_path: Path) -> None:
+    import hashlib
+
+    import pwmkit
+    from pwmkit.evaluate import evaluate
+    from pwmkit.record.designfile import design_to_toml
+    from pwmkit.record.report import report_html
+
+    design = demo_designs()["fan"].replace(revision="rev B: R2 4k7 → 3k9 after the bench test")
+    data = design_to_toml(design).encode("utf-8")
+    page = html.unescape(report_html(design, evaluate(design, spread=False), source_name="fan.toml",
+                                     source_bytes=data, date="2026-12-02 03:30 UTC"))
+    header = page[page.index("record-header"):page.index("</header>")]
+    # SHA-256 (FIPS 180-4) of the file's bytes, computed here by hashlib
+    for expected in ("fan.toml", hashlib.sha256(data).hexdigest(), "2026-12-02 03:30 UTC", pwmkit.__version__,
+                     "rev B: R2 4k7 → 3k9 after the bench test", design.name):
+        assert expected in header
 
 
 def test_report_is_self_contained(fan_report: tuple[Any, str]) -> None:

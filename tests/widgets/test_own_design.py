@@ -132,7 +132,10 @@ def test_parts_controls_and_requirement_drawings(fan_file: Path) -> None:
     # the window on the pot-travel plot, the readout band and the conditions plots
     lo, hi = dash.design.requirements.frequency_window
     box = dash.pot_travel.plot.windows["frequency"]
-    assert box.visible and (box.bottom, box.top) == (lo, hi)
+    assert dash.pot_travel.plot.frequency_figure.yaxis.axis_label == "frequency [kHz]"  # the box is in axis units
+    assert box.visible and (box.bottom, box.top) == (pytest.approx(lo / 1e3), pytest.approx(hi / 1e3))
+    legend = [item.label.value for item in dash.pot_travel.plot.frequency_figure.legend[0].items]
+    assert "requirement window" in legend  # every drawn band is named in the legend
     assert "required" in dash.requirement_band.value and "data-q='frequency'" in dash.requirement_band.value
     dash.show_tab("Supply & ambient")
     data = dash.conditions.plot.sources["supply"].data

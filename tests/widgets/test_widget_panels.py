@@ -4,6 +4,7 @@ demand, lazy tabs, debounced extras, contained failures, light imports."""
 from __future__ import annotations
 
 import asyncio
+import html
 import subprocess
 import sys
 
@@ -43,11 +44,11 @@ def test_figures_are_updated_in_place_never_rebuilt(dash):
     sources = (dash.waveforms.plot.source, dash.pot_travel.plot.marker)
     models = (dash.waveforms.bokeh, dash.pot_travel.bokeh)
     before = [dict(s.data) for s in sources]
-    dash.timing.wiper.value = 0.7
+    dash.timing.wiper.value = 70.0  # the slider reads percent of the travel
     assert (dash.waveforms.plot.top, dash.pot_travel.plot.duty_figure) == figures
     assert (dash.waveforms.plot.source, dash.pot_travel.plot.marker) == sources
     assert (dash.waveforms.bokeh, dash.pot_travel.bokeh) == models
-    assert dash.pot_travel.plot.marker.data["wiper"] == [0.7] != before[1]["wiper"]
+    assert dash.pot_travel.plot.marker.data["wiper"] == [70.0] != before[1]["wiper"]
 
 
 def test_plots_carry_their_first_data_when_the_widget_is_made(grow):
@@ -64,7 +65,7 @@ def test_plots_carry_their_first_data_when_the_widget_is_made(grow):
 
 def test_resync_reserialises_every_plot(dash):
     before = dash.waveforms.bokeh.render_bundle
-    dash.timing.wiper.value = 0.65
+    dash.timing.wiper.value = 65.0
     # waveforms, pot travel, spread, motor current, MOSFET losses, flicker map, candidates, supply & ambient
     assert dash.resync() == 8
     assert dash.waveforms.bokeh.render_bundle != before
@@ -79,7 +80,7 @@ def test_pot_travel_marker_sits_on_the_exact_curve(shared_dash):
     assert duty_at_wiper == pytest.approx(marker["duty"][0], rel=2e-3)
     # textbook curve: duty = (ra + w·P)/(ra + rb + P) for the pot topology (common practice, ln 2 cancels)
     t = dash.design.timing
-    w = np.asarray(data["wiper"])
+    w = np.asarray(data["wiper"]) / 100.0  # the plot draws the wiper in percent of the travel
     expected = 100 * (t.ra + w * t.pot) / (t.ra + t.rb + t.pot)
     assert np.allclose(data["duty_ideal"], expected, rtol=1e-9)
 
@@ -87,7 +88,7 @@ def test_pot_travel_marker_sits_on_the_exact_curve(shared_dash):
 def test_hidden_tabs_catch_up_when_shown(dash):
     dash.show_tab("Checks")
     point = dict(dash.flicker.plot.point.data)
-    dash.timing.wiper.value = 0.2
+    dash.timing.wiper.value = 20.0
     assert dash.flicker.plot.point.data == point  # hidden: not refreshed yet
     dash.show_tab("Flicker")
     assert dash.flicker.plot.point.data["frequency"] == [pytest.approx(dash.evaluation.timing.frequency)]
@@ -100,7 +101,7 @@ def test_flicker_point_uses_the_ieee1789_classification(shared_dash):
     assert dash.flicker.plot.point.data["modulation"] == [pytest.approx(100.0)]  # full on/off PWM: 100 %
     # IEEE Std 1789-2015 RP2: above 3 kHz no observable effect at any modulation
     assert fl.frequency > 3000 and fl.classification == "no-effect"
-    assert "no effect" in dash.flicker.summary.value and "✔ met" in dash.flicker.summary.value
+    assert "no observable effect" in dash.flicker.summary.value and "✔ met" in dash.flicker.summary.value
 
 
 def test_spread_runs_on_demand_and_marks_itself_stale(dash):
@@ -112,10 +113,20 @@ def test_spread_runs_on_demand_and_marks_itself_stale(dash):
     data = panel.plot.sources["frequency"].data
     spread = dash.session.spread_evaluation.spread
     assert sum(data["top"]) == spread.n - spread.n_failed
-    assert data["left"][0] == pytest.approx(spread.frequency_histogram.edges[0])
-    assert panel.plot._band["frequency"].visible and panel.plot._window["frequency"][0].visible
+    # the axis is in kHz, as the texts beside it (6 kHz demo design)
+    assert panel.plot.figures["frequency"].xaxis.axis_label == "frequency [kHz]"
+    assert data["left"][0] == pytest.approx(spread.frequency_histogram.edges[0] / 1e3)
+    worst = dash.session.spread_evaluation.worst_case
+    assert panel.plot.bands["frequency"].data["x0"] == [pytest.approx(worst.frequency_min / 1e3)]
+    assert panel.plot.windows["frequency"].data["x"] == [pytest.approx(x / 1e3) for x in spread.frequency_window]
+    # every drawn band and line is named in the legend
+    labels = [item.label.value for item in panel.plot.figures["frequency"].legend[0].items]
+    assert labels == ["Monte Carlo samples", "worst case", "requirement window", "nominal"]
+    # each histogram's title quotes its own window's share, never the other's
+    assert "frequency window" in panel.plot.figures["frequency"].title.text
+    assert "frequency window" not in panel.plot.figures["duty"].title.text
     assert "yield" in panel.summary.value and "pwmkit-fresh" in panel.status.value
-    dash.timing.wiper.value = 0.45
+    dash.timing.wiper.value = 45.0
     assert "stale" in panel.status.value
 
 
@@ -148,11 +159,17 @@ def test_loads_panel_led(grow):
     panel = LoadsPanel(grow)
     ev = panel.session.evaluation
     assert "LED string" in panel.load_html.value
-    assert f"{ev.led.n_parallel} × {ev.led.n_series}" in panel.load_html.value
-    # CIE 15 L*: 10 even steps from L* = 10 need 1.13 % duty for the first (lightness module check)
-    assert "1.13 %" in panel.steps_html.value
+    assert f"{ev.led.n_parallel} strings × {ev.led.n_series} LEDs" in panel.load_html.value
+    # the rating is the part's rating and the derated limit it is used to (IEC 60115-1 linear derating
+    # from 70 °C to 155 °C; 40 °C upper ambient → full rating; 2× margin, common practice)
+    assert f"{ev.led.resistor_rating:.3g} W part, derated limit {0.5 * ev.led.resistor_rating:.3g} W at 40 °C" \
+        in panel.load_html.value
+    # CIE 15 L*: 10 even steps from L* = 10 need Y = ((10 + 16)/116)³ = 1.126 % duty for the first
+    assert "1.126 %" in panel.steps_html.value
     powers = panel.losses.source.data["power"]
-    assert powers[0] == pytest.approx(1e3 * ev.mosfet.p_cond)
+    # the axis takes the prefix of the largest term (a few hundred µW here), as the total beside it
+    assert panel.losses.figure.xaxis.axis_label == "power [µW]"
+    assert powers[0] == pytest.approx(1e6 * ev.mosfet.p_cond)
     assert panel.motor_box.layout.display == "none"
     assert "pwmkit-cautions" in panel.children[-1].value
 
@@ -182,12 +199,17 @@ def test_findings_say_severity_in_words_and_symbols(grow):
 
 def test_formulas_render_and_copy(grow):
     panel = FormulasPanel(grow)
-    assert panel.math.value.startswith("$$") and "t_{\\mathrm{high}}" in panel.math.value
+    assert "$$" in panel.math.value and "t_{\\mathrm{high}}" in panel.math.value
+    assert "\\begin{aligned}" in panel.math.value  # broken at its factors, so it fits a column
     assert panel.text.value.startswith("\\documentclass")
     panel.format.value = "python"
     assert "def t_high(" in panel.text.value
     panel.quantity.value = "duty"
     assert "D = " in panel.math.value
+    # one copy button per format, each carrying that format's whole sheet
+    for key in ("latex", "markdown", "python", "c", "unicode"):
+        assert f"data-format='{key}'" in panel.copy.value
+    assert html.escape(panel.sheets["python"]) in panel.copy.value
 
 
 def test_schematic_redraw_is_debounced_on_a_running_loop(grow):

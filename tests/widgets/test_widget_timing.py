@@ -37,7 +37,7 @@ def test_wiper_slider_changes_design_readout_and_plot(pair):
     timing, waves = pair
     readout = timing.readout.value
     v_cap = np.array(waves.plot.source.data["v_cap"])
-    timing.wiper.value = 0.3
+    timing.wiper.value = 30.0  # percent of the travel on screen
     assert timing.session.design.timing.wiper == 0.3
     assert timing.readout.value != readout
     assert not np.array_equal(np.array(waves.plot.source.data["v_cap"]), v_cap)
@@ -48,9 +48,10 @@ def test_readout_shows_the_evaluated_timing(pair):
     timing, _ = pair
     ev = timing.session.evaluation
     table = cells(timing.readout.value)
-    assert table[("frequency", "exact")] == format_value(ev.timing.frequency, "Hz", 5)
-    assert table[("frequency", "ideal")] == format_value(ev.ideal.frequency, "Hz", 5)
-    assert table[("t_high", "exact")] == format_value(ev.timing.t_high, "s", 5)
+    # one rule on screen: 4 significant figures (pwmkit.numstyle)
+    assert table[("frequency", "exact")] == format_value(ev.timing.frequency, "Hz", 4)
+    assert table[("frequency", "ideal")] == format_value(ev.ideal.frequency, "Hz", 4)
+    assert table[("t_high", "exact")] == format_value(ev.timing.t_high, "s", 4)
     # textbook form: t_high = ln 2 · (ra + wiper·pot)·C (common practice: 0.693·R·C), recomputed here
     t = timing.session.design.timing
     assert ev.ideal.t_high == pytest.approx(math.log(2) * (t.ra + t.wiper * t.pot) * t.c, rel=1e-12)
@@ -87,11 +88,12 @@ def test_text_entry_accepts_engineering_notation(pair):
 @pytest.mark.parametrize(
     ("field", "text", "words"),
     [
-        ("c", "10q", ["c:", "'10q'", "cannot be read"]),
-        ("ra", "-4k7", ["timing.ra", "-4700", "1 Ω ≤ timing.ra ≤ 1 GΩ"]),
-        ("ra", "10 kF", ["ra", "'10 kF'", "F", "takes Ω"]),
-        ("vcc", "1.5", ["cannot reach the upper threshold"]),
-        ("pot", "", ["pot:"]),
+        # the message names the field with its label and unit, and offers examples valid for it
+        ("c", "10q", ["C (timing) [F]", "'10q'", "is not a value", "2n2, 100 nF"]),
+        ("ra", "-4k7", ["R_A (charge) [Ω]", "-4700", "1 Ω ≤ the value ≤ 1 GΩ", "4k7, 10 kΩ"]),
+        ("ra", "10 kF", ["R_A (charge) [Ω]", "'10 kF'", "F", "takes Ω", "4k7, 10 kΩ"]),
+        ("vcc", "1.5", ["supply V_CC [V]", "cannot reach the upper threshold"]),
+        ("pot", "", ["pot (end to end) [Ω]", "4k7"]),
     ],
 )
 def test_bad_input_shows_message_and_keeps_last_good_design(pair, field, text, words):
@@ -100,7 +102,11 @@ def test_bad_input_shows_message_and_keeps_last_good_design(pair, field, text, w
     data = {k: np.array(v) for k, v in waves.plot.source.data.items()}
     message = timing.set_value(field, text)
     assert message is not None and all(w in message for w in words), message
-    assert timing.message.layout.display is None and "pwmkit-msg" in timing.message._dom_classes
+    assert "-1.5" not in message and "timing." not in message  # no code names, no examples for other fields
+    entry = timing.entries[field]
+    # the message sits with the field (its own line under it), and the field is marked invalid
+    assert entry.note.layout.display is None and "pwmkit-msg" in entry.note._dom_classes
+    assert entry.invalid and "pwmkit-invalid" in entry.text._dom_classes
     assert timing.session.design is design
     assert timing.readout.value == readout
     assert all(np.array_equal(np.array(waves.plot.source.data[k]), v) for k, v in data.items())
@@ -111,7 +117,8 @@ def test_message_clears_after_a_good_value(pair):
     timing, _ = pair
     assert timing.set_value("c", "10q") is not None
     assert timing.set_value("c", "2n7") is None
-    assert timing.message_text == "" and timing.message.layout.display == "none"
+    assert timing.message_text == "" and timing.entries["c"].note.layout.display == "none"
+    assert not timing.entries["c"].invalid
 
 
 def test_supply_too_low_for_the_led_string_is_refused(pair):
