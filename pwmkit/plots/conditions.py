@@ -6,7 +6,7 @@ from typing import Any
 
 import numpy as np
 
-from .style import TRACE, new_figure, style_legend
+from .style import TRACE, engineering_scale, new_figure, style_legend
 
 __all__ = ["ConditionsPlot"]
 
@@ -21,7 +21,8 @@ class ConditionsPlot:
     ----------
     layout : bokeh grid layout
     sources : dict "supply", "ambient" of ColumnDataSource (x, frequency, frequency_low, frequency_high,
-        duty, duty_low, duty_high; duty in %)
+        duty, duty_low, duty_high; frequency in the axis unit named by ``frequency_unit``, duty in %)
+    frequency_unit : prefixed unit of the frequency axes ("kHz" …), chosen like the text's numbers
     """
 
     def __init__(self, *, width: int = 330, height: int = 200) -> None:
@@ -33,6 +34,7 @@ class ConditionsPlot:
         self.figures: dict[tuple[str, str], Any] = {}
         self.windows: dict[tuple[str, str], Any] = {}
         self._window_legend: dict[tuple[str, str], Any] = {}
+        self.frequency_unit = "Hz"
         for cond, label in (("supply", "supply [V]"), ("ambient", "ambient [°C]")):
             src = ColumnDataSource(data={k: [] for k in cols}, name=f"pwmkit-conditions-{cond}")
             self.sources[cond] = src
@@ -59,15 +61,20 @@ class ConditionsPlot:
     def update(self, sweep: Any, frequency_window: tuple[float, float] | None = None,
                duty_window: tuple[float, float] | None = None) -> None:
         """Show a :class:`pwmkit.condition_sweep.ConditionSweep` and the required windows."""
+        highs = [np.max(np.abs(np.asarray(getattr(sweep, cond).frequency_high, dtype=float)))
+                 for cond in ("supply", "ambient")]
+        largest = max([h for h in highs if np.isfinite(h)] + ([frequency_window[1]] if frequency_window else []) + [0.0])
+        f_scale, self.frequency_unit = engineering_scale(largest, "Hz")  # axis prefix as the text's numbers
         for cond in ("supply", "ambient"):
+            self.figures[(cond, "frequency")].yaxis.axis_label = f"frequency [{self.frequency_unit}]"
             c = getattr(sweep, cond)
             self.sources[cond].data = {
-                "x": np.asarray(c.x, dtype=float), "frequency": np.asarray(c.frequency, dtype=float),
-                "frequency_low": np.asarray(c.frequency_low, dtype=float),
-                "frequency_high": np.asarray(c.frequency_high, dtype=float),
+                "x": np.asarray(c.x, dtype=float), "frequency": np.asarray(c.frequency, dtype=float) / f_scale,
+                "frequency_low": np.asarray(c.frequency_low, dtype=float) / f_scale,
+                "frequency_high": np.asarray(c.frequency_high, dtype=float) / f_scale,
                 "duty": 100 * np.asarray(c.duty, dtype=float), "duty_low": 100 * np.asarray(c.duty_low, dtype=float),
                 "duty_high": 100 * np.asarray(c.duty_high, dtype=float)}
-            for q, window, scale in (("frequency", frequency_window, 1.0), ("duty", duty_window, 100.0)):
+            for q, window, scale in (("frequency", frequency_window, 1.0 / f_scale), ("duty", duty_window, 100.0)):
                 box = self.windows[(cond, q)]
                 if window is None:
                     box.visible = False

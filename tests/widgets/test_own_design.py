@@ -141,6 +141,10 @@ def test_parts_controls_and_requirement_drawings(fan_file: Path) -> None:
     data = dash.conditions.plot.sources["supply"].data
     assert data["x"][0] == 11.0 and data["x"][-1] == 14.0 and len(data["frequency"]) == 41
     assert dash.conditions.plot.windows[("supply", "frequency")].visible
+    # axis prefix follows the text's numbers (kHz here), and the box is in axis units
+    assert dash.conditions.plot.figures[("supply", "frequency")].yaxis.axis_label == "frequency [kHz]"
+    f_box = dash.conditions.plot.windows[("supply", "frequency")]
+    assert (f_box.bottom, f_box.top) == (pytest.approx(lo / 1e3), pytest.approx(hi / 1e3))
     # the spread histograms draw the same window
     dash.spread._run_safely()
     assert dash.design.requirements.frequency_window == dash.session.spread_evaluation.spread.frequency_window
