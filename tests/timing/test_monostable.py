@@ -90,7 +90,7 @@ def test_sympy_derivatives_against_finite_difference():
 
 
 def test_control_pin_drive_matches_divider_and_references_check_value():
-    # REFERENCES §1.7 check [C]: Rext = 10 kΩ to ground at 12 V gives 6.000 V (regression pin)
+    # Rext = 10 kΩ to ground at 12 V against the 5k/5k/5k divider gives 6.000 V (regression pin, computed from the divider)
     d = control_pin_drive(0.0, 10e3, 12.0)
     assert d.vctl == pytest.approx(6.0, abs=1e-12)
     assert d.vctl == pytest.approx(control_voltage_from_divider(12.0, 10e3))
@@ -103,7 +103,7 @@ def test_control_pin_drive_matches_divider_and_references_check_value():
 
 
 def test_control_pin_sweep_references_table():
-    # REFERENCES §1.7 worked table [C] (classic, ideal switch) — regression pins
+    # worked table (classic, ideal switch) computed from the closed forms — regression pins
     s = control_pin_sweep("classic", [6.0, 8.0, 9.0, 11.5], ra=10e3, rb=10e3, c=100e-9, vcc=12.0, vsat=0.0)
     assert s.frequency == pytest.approx([664.86, 480.90, 395.93, 174.08], abs=0.01)
     assert s.duty == pytest.approx([0.5392, 0.6667, 0.7256, 0.8793], abs=1e-4)
