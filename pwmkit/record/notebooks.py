@@ -246,7 +246,9 @@ def execute_notebook(nb: Any, *, cwd: str | os.PathLike[str], timeout: float = 6
     error = None
     try:
         # the kernel's own log lines (e.g. its note about local TCP transport) would clutter the output
-        client.execute(stderr=subprocess.DEVNULL)
+        # PWMKIT_BUILD_ALL_PAGES: a dashboard builds every tab page up front, so the record holds
+        # them all (interactively, hidden pages are built when first shown)
+        client.execute(stderr=subprocess.DEVNULL, env={**os.environ, "PWMKIT_BUILD_ALL_PAGES": "1"})
     except CellExecutionError as exc:
         error = f"a cell raised an error: {_cell_error(work) or _first_line(exc)}"
     except CellTimeoutError:

@@ -36,7 +36,7 @@ from .formulas import FormulasPanel
 from .loads import LoadsPanel
 from .session import DesignSession
 from .spread import SpreadPanel
-from .tabs import PageTabs
+from .tabs import LazyPage, PageTabs
 from .timing import TimingPanel
 from .views import FlickerPanel, PotTravelPanel, WaveformPanel
 
@@ -117,7 +117,12 @@ class Dashboard(w.VBox):
     control_heater : ControlHeaterPanel or None — two-timer designs and heater loads (first tab)
     crosscheck : CrossCheckBox or None (None where ngspice is not installed)
     as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
-    tabs : ipywidgets.Tab
+    tabs : PageTabs — each page a :class:`~pwmkit.widgets.tabs.LazyPage`
+
+    The panels of the tab pages are built when their page is first shown, when the attribute is
+    first read (``dash.spread`` builds the Spread page), or ahead of time once the kernel has been
+    idle for a second after the dashboard was made; ``PWMKIT_BUILD_ALL_PAGES=1`` (set by headless
+    runs, which record every page) or :meth:`build_pages` builds them all at once.
     """
 
     def __init__(self, design: Design | DesignSession | str | os.PathLike[str], *, debounce: float = 0.3) -> None:
@@ -135,42 +140,41 @@ class Dashboard(w.VBox):
         else:
             self.timing = TimingPanel(s, show_readout=False)
         self.waveforms = WaveformPanel(s, show_cautions=False)
-        self.pot_travel = PotTravelPanel(s)
-        self.spread = SpreadPanel(s, debounce=max(debounce, 0.6))
-        self.loads = LoadsPanel(s, show_cautions=False)
-        self.flicker = FlickerPanel(s, show_cautions=False)
-        self.findings = FindingsPanel(s)
-        self.formulas = FormulasPanel(s, debounce=debounce)
-        self.schematic = self._schematic_panel(s, debounce)
-        self.as_built = None
-        if s.design.bench:  # bench readings: the "as designed vs as built" tab (pwmkit.widgets.bench)
-            from .bench import AsBuiltPanel
+        # Tab pages are built when first shown (or asked for, or prefetched once the kernel is idle):
+        # see LazyPage. Each factory reads the session's current design when it runs.
+        self._lazy: dict[str, LazyPage] = {}
 
-            self.as_built = AsBuiltPanel(s, debounce=max(debounce, 0.6))
-        pages: list[tuple[str, w.Widget]] = [
-            ("Pot travel", self.pot_travel), ("Spread", self.spread), ("Load & switch", self.loads),
-            ("Flicker", self.flicker), ("Checks", self.findings), ("Formulas", self.formulas),
-        ]
-        self.control_heater = None
+        def page(title: str, attr: str, factory: Any) -> tuple[str, LazyPage]:
+            self._lazy[attr] = LazyPage(factory)
+            return title, self._lazy[attr]
+
+        pages: list[tuple[str, LazyPage]] = []
         if two_timer or (s.design.load is not None and s.design.load.kind == "heater"):
             from .two_timer import ControlHeaterPanel
 
-            self.control_heater = ControlHeaterPanel(s)
-            pages.insert(0, ("Control & heater", self.control_heater))
-        if two_timer:  # no potentiometer in the two-timer PWM
-            pages = [(t, p) for t, p in pages if p is not self.pot_travel]
-        if self.schematic is not None:
-            pages.append(("Schematic", self.schematic))
+            pages.append(page("Control & heater", "control_heater", lambda: ControlHeaterPanel(s)))
+        if not two_timer:  # no potentiometer in the two-timer PWM
+            pages.append(page("Pot travel", "pot_travel", lambda: PotTravelPanel(s)))
+        pages += [
+            page("Spread", "spread", lambda: SpreadPanel(s, debounce=max(debounce, 0.6))),
+            page("Load & switch", "loads", lambda: LoadsPanel(s, show_cautions=False)),
+            page("Flicker", "flicker", lambda: FlickerPanel(s, show_cautions=False)),
+            page("Checks", "findings", lambda: FindingsPanel(s)),
+            page("Formulas", "formulas", lambda: FormulasPanel(s, debounce=debounce)),
+        ]
+        if _schematic_available():
+            pages.append(page("Schematic", "schematic", lambda: self._schematic_panel(s, debounce) or _no_schematic()))
         self.file, self.requirement_band, own = attach_pages(s, file_state)  # your own design: file, search …
-        self.requirements, self.parts, self.candidates, self.conditions = (p for _t, p in own)
         if two_timer:  # the part search knows the astable networks; the two-timer has its own
             from .two_timer import TwoTimerCandidatesPanel
 
-            self.candidates = TwoTimerCandidatesPanel(s)  # type: ignore[assignment]
-            own = [(t, self.candidates if t == "Candidates" else p) for t, p in own]
-        pages = pages + own
-        if self.as_built is not None:
-            pages.append(("As built", self.as_built))
+            own = [(t, (lambda: TwoTimerCandidatesPanel(s)) if t == "Candidates" else f) for t, f in own]
+        for (title, factory), attr in zip(own, ("requirements", "parts", "candidates", "conditions")):
+            pages.append(page(title, attr, factory))
+        if s.design.bench:  # bench readings: the "as designed vs as built" tab (pwmkit.widgets.bench)
+            from .bench import AsBuiltPanel
+
+            pages.append(page("As built", "as_built", lambda: AsBuiltPanel(s, debounce=max(debounce, 0.6))))
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
         self.timing.layout.width = "440px" if not two_timer else "560px"
         self.timing.layout.min_width = self.timing.layout.width
@@ -194,10 +198,65 @@ class Dashboard(w.VBox):
         self.add_class("pwmkit-dashboard")
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")
-        self._on_tab({"new": self.tabs.selected_index})
         s.subscribe(self._refresh_header)
         s.subscribe_spread(lambda _ev: self._refresh_header(s.evaluation))
         self._refresh_header(s.evaluation)
+        loop = _running_loop()
+        if os.environ.get("PWMKIT_BUILD_ALL_PAGES"):  # a headless run records every page
+            self.build_pages()
+        elif loop is None:  # plain Python, tests: the selected page now, the others when asked for
+            self._on_tab({"new": self.tabs.selected_index})
+        else:
+            # in a kernel: the dashboard shows first (controls, readout, waveforms), the selected
+            # page is drawn right after, the hidden pages once the kernel has been idle a moment
+            loop.call_soon(self._first_page, loop)
+
+    def _first_page(self, loop: Any) -> None:
+        self._on_tab({"new": self.tabs.selected_index})
+        self._schedule_prefetch(loop)
+
+    # -- pages built on demand --------------------------------------------------------------------
+    def _panel(self, attr: str) -> Any:
+        page = self._lazy.get(attr)
+        return None if page is None else page.build()
+
+    pot_travel = property(lambda self: self._panel("pot_travel"), doc="PotTravelPanel (None for the two-timer)")
+    spread = property(lambda self: self._panel("spread"), doc="SpreadPanel")
+    loads = property(lambda self: self._panel("loads"), doc="LoadsPanel")
+    flicker = property(lambda self: self._panel("flicker"), doc="FlickerPanel")
+    findings = property(lambda self: self._panel("findings"), doc="FindingsPanel")
+    formulas = property(lambda self: self._panel("formulas"), doc="FormulasPanel")
+    schematic = property(lambda self: self._panel("schematic"), doc="SchematicPanel or None")
+    control_heater = property(lambda self: self._panel("control_heater"), doc="ControlHeaterPanel or None")
+    requirements = property(lambda self: self._panel("requirements"), doc="RequirementsPanel")
+    parts = property(lambda self: self._panel("parts"), doc="PartsPanel")
+    candidates = property(lambda self: self._panel("candidates"), doc="CandidatesPanel")
+    conditions = property(lambda self: self._panel("conditions"), doc="ConditionsPanel")
+    as_built = property(lambda self: self._panel("as_built"), doc="AsBuiltPanel or None")
+
+    def build_pages(self) -> int:
+        """Build every tab page now (a headless run does this to record them all); returns how many were new."""
+        new = [p for p in self._pages if not p.built]
+        for page in new:
+            page.build()
+        self._on_tab({"new": self.tabs.selected_index})  # hidden pages: follow lazily again
+        return len(new)
+
+    def _schedule_prefetch(self, loop: Any, delay: float = 1.0) -> None:
+        """Build the hidden pages one by one on the kernel's event loop, starting after ``delay`` [s]."""
+
+        def step() -> None:
+            try:
+                for index, page in enumerate(self._pages):
+                    if not page.built:
+                        page.build()
+                        page.set_active(index == self.tabs.selected_index)
+                        loop.call_later(0.05, step)  # one page at a time: a slider move is served between
+                        return
+            except Exception:  # prefetching is an optimisation: the page builds again when shown
+                log.exception("pwmkit: building a tab page ahead of time failed")
+
+        loop.call_later(delay, step)
 
     @staticmethod
     def _schematic_panel(session: DesignSession, debounce: float) -> Any:
@@ -268,7 +327,9 @@ class Dashboard(w.VBox):
 
     def flush(self) -> None:
         """Run debounced work (schematic, formulas, spread re-run) now."""
-        for panel in (self.schematic, self.formulas, self.spread, self.as_built, self.downloads):
+        panels = [page.panel for attr, page in self._lazy.items()
+                  if attr in ("schematic", "formulas", "spread", "as_built") and page.built]
+        for panel in [*panels, self.downloads]:
             if panel is not None:
                 panel.flush()
 
@@ -295,6 +356,33 @@ class Dashboard(w.VBox):
         """Select a tab by its title ("Pot travel", "Spread", "Load & switch", "Flicker", "Checks",
         "Formulas", "Schematic")."""
         self.tabs.selected_index = list(self.tabs.titles).index(title)
+
+
+def _running_loop() -> Any:
+    import asyncio
+
+    try:
+        return asyncio.get_running_loop()
+    except RuntimeError:
+        return None
+
+
+def _no_schematic() -> Any:
+    from ._base import Panel
+
+    panel = Panel()
+    panel.set_body([w.HTML("<i>The schematic needs pwmkit.schematic and schemdraw.</i>")])
+    return panel
+
+
+def _schematic_available() -> bool:
+    """True when the schematic tab can be made (pwmkit.schematic and schemdraw installed)."""
+    from importlib.util import find_spec
+
+    try:
+        return find_spec("schemdraw") is not None and find_spec("pwmkit.schematic") is not None
+    except (ImportError, ValueError):
+        return False
 
 
 def dashboard(design: Design | DesignSession | str | os.PathLike[str], *, debounce: float = 0.3) -> Dashboard:

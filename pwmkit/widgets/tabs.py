@@ -20,7 +20,8 @@ Why :class:`LivePlot`
 as patches to the views that exist. A view made later (after a reload) started from that first
 state and showed an old design until the next edit. :class:`LivePlot` serialises the plot afresh
 whenever a front end asks for the full widget state, so every new view starts from the current
-design.
+design — only when the plot changed since it was last serialised (serialising takes tens of
+milliseconds per plot; a widget that opens right after it was made sends the state it has).
 """
 
 from __future__ import annotations
@@ -32,7 +33,7 @@ import traitlets
 
 from ._base import log
 
-__all__ = ["PageTabs", "live_plot"]  # LivePlot: module attribute made on first use (see __getattr__)
+__all__ = ["PageTabs", "LazyPage", "live_plot"]  # LivePlot: module attribute made on first use (see __getattr__)
 
 TABS_CSS = """<style>
 .pwmkit-tabbar .widget-toggle-button {width:auto; min-width:0; padding:0 12px; margin:0 2px 0 0;
@@ -110,6 +111,47 @@ class PageTabs(w.VBox):
             log.exception("pwmkit: showing a tab failed")
 
 
+class LazyPage(w.VBox):
+    """A tab page whose panel is built the first time the page is shown, asked for, or prefetched.
+
+    A dashboard has a dozen pages with about fifteen plots; building them all before the first
+    display took seconds. A lazy page holds a factory instead; :meth:`build` makes the panel (it
+    reads the session's current design, so it starts up to date) and puts it in the page.
+
+    Parameters
+    ----------
+    factory : callable
+        Returns the panel (a widget with ``set_active(bool)``).
+    """
+
+    def __init__(self, factory: Any) -> None:
+        super().__init__([w.HTML("<i style='color:#5a6270'>drawing this page…</i>")])
+        self._factory = factory
+        self.panel: Any = None
+
+    @property
+    def built(self) -> bool:
+        return self.panel is not None
+
+    def build(self) -> Any:
+        """The panel, built now if it was not yet."""
+        if self.panel is None:
+            panel = self._factory()
+            self._factory = None
+            self.panel = panel
+            self.children = (panel,)
+            if self.layout.display == "none" and hasattr(panel, "set_active"):
+                panel.set_active(False)  # built while hidden (asked for, prefetched): follow lazily
+        return self.panel
+
+    def set_active(self, active: bool) -> None:
+        """Shown: build the panel if needed and let it catch up; hidden: tell a built panel."""
+        if active:
+            self.build().set_active(True)
+        elif self.panel is not None:
+            self.panel.set_active(False)
+
+
 def _bokeh_model_class() -> type:
     from jupyter_bokeh import BokehModel
 
@@ -130,9 +172,20 @@ def _live_class() -> type:
         class LivePlot(base):  # type: ignore[misc, valid-type]
             """A :class:`jupyter_bokeh.BokehModel` whose full state is always the plot as it is now."""
 
+            #: True once the plot changed after its state was last serialised
+            _plot_changed = False
+
+            def _document_patched(self, event: Any) -> None:
+                self._plot_changed = True  # any change, also one a view made (zoom): the next full state has it
+                super()._document_patched(event)
+
+            def update_from_model(self, model: Any) -> None:
+                super().update_from_model(model)
+                self._plot_changed = False
+
             def get_state(self, key: Any = None, drop_defaults: bool = False) -> dict[str, Any]:
                 state = super().get_state(key=key, drop_defaults=drop_defaults)
-                if key is None and getattr(self, "_model", None) is not None:
+                if key is None and self._plot_changed and getattr(self, "_model", None) is not None:
                     # a front end asks for everything (it (re)connects, or the widget opens):
                     # serialise the plot as it is now, not as it was when the widget was made
                     try:
@@ -140,6 +193,7 @@ def _live_class() -> type:
                         with self._lock_property(render_bundle=bundle):
                             self.render_bundle = bundle
                         state["render_bundle"] = serialize_json(bundle)
+                        self._plot_changed = False
                     except Exception:  # the older state is still a valid plot
                         log.exception("pwmkit: re-serialising a plot failed")
                 return state

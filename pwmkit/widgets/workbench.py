@@ -11,8 +11,6 @@ from __future__ import annotations
 import os
 from typing import Any
 
-import ipywidgets as w
-
 from ..design import Design
 from ..errors import DesignError
 from .designfile_bar import DesignFileState, FileBar
@@ -36,16 +34,20 @@ def open_source(source: Any) -> tuple[DesignSession, DesignFileState]:
                       f"{type(source).__name__}")
 
 
-def attach_pages(session: DesignSession, state: DesignFileState) -> tuple[FileBar, Any, list[tuple[str, w.Widget]]]:
-    """The file bar, the requirement band and the new (title, panel) tab pages for one session."""
+def attach_pages(session: DesignSession, state: DesignFileState) -> tuple[FileBar, Any, list[tuple[str, Any]]]:
+    """The file bar, the requirement band and the new tab pages for one session.
+
+    The pages come as (title, factory) pairs: each factory builds its panel when called (the
+    dashboard calls it when the page is first shown, see :class:`pwmkit.widgets.tabs.LazyPage`).
+    """
     from .candidates import CandidatesPanel
     from .conditions import ConditionsPanel
     from .requirements import PartsPanel, RequirementBand, RequirementsPanel
 
     bar = FileBar(session, state)
     band = RequirementBand(session)
-    pages: list[tuple[str, w.Widget]] = [
-        (TAB_TITLES[0], RequirementsPanel(session)), (TAB_TITLES[1], PartsPanel(session)),
-        (TAB_TITLES[2], CandidatesPanel(session)), (TAB_TITLES[3], ConditionsPanel(session)),
+    pages: list[tuple[str, Any]] = [
+        (TAB_TITLES[0], lambda: RequirementsPanel(session)), (TAB_TITLES[1], lambda: PartsPanel(session)),
+        (TAB_TITLES[2], lambda: CandidatesPanel(session)), (TAB_TITLES[3], lambda: ConditionsPanel(session)),
     ]
     return bar, band, pages

@@ -66,9 +66,50 @@ def test_plots_carry_their_first_data_when_the_widget_is_made(grow):
 def test_resync_reserialises_every_plot(dash):
     before = dash.waveforms.bokeh.render_bundle
     dash.timing.wiper.value = 65.0
+    assert dash.resync() == 2  # only built pages have plots: the waveforms and the first tab (pot travel)
+    dash.build_pages()
     # waveforms, pot travel, spread, motor current, MOSFET losses, flicker map, candidates, supply & ambient
     assert dash.resync() == 8
     assert dash.waveforms.bokeh.render_bundle != before
+
+
+def test_hidden_pages_are_built_when_shown_or_asked_for(grow):
+    from pwmkit.widgets.tabs import LazyPage
+
+    dash = Dashboard(grow)
+    pages = dict(zip(dash.tabs.titles, dash.tabs.pages))
+    assert all(isinstance(p, LazyPage) for p in pages.values())
+    assert [t for t, p in pages.items() if p.built] == ["Pot travel"]  # the page shown
+    dash.timing.wiper.value = 30.0  # a change while Spread is hidden and not built
+    dash.show_tab("Flicker")
+    assert pages["Flicker"].built and pages["Flicker"].children == (dash.flicker,)
+    assert dash.flicker.session.design.timing.wiper == pytest.approx(0.30)  # built from the current design
+    assert not pages["Spread"].built
+    spread = dash.spread  # reading the attribute builds the page
+    assert pages["Spread"].built and pages["Spread"].children == (spread,)
+    assert dash.build_pages() == len(pages) - 3 and dash.build_pages() == 0
+
+
+def test_in_a_kernel_the_shown_page_is_drawn_after_the_dashboard_and_the_rest_when_idle(grow):
+    async def run() -> tuple[list[bool], list[bool], list[bool]]:
+        dash = Dashboard(grow)
+        made = [p.built for p in dash.tabs.pages]
+        await asyncio.sleep(0)  # the loop runs the callback scheduled with call_soon
+        first = [p.built for p in dash.tabs.pages]
+        for _ in range(200):  # the prefetch starts after 1 s idle, one page per 50 ms
+            if all(p.built for p in dash.tabs.pages):
+                break
+            await asyncio.sleep(0.05)
+        assert [p.layout.display for p in dash.tabs.pages].count(None) == 1  # still one page shown
+        return made, first, [p.built for p in dash.tabs.pages]
+
+    made, first, later = asyncio.run(run())
+    assert not any(made) and first == [True] + [False] * (len(first) - 1) and all(later)
+
+
+def test_headless_runs_build_every_page(grow, monkeypatch):
+    monkeypatch.setenv("PWMKIT_BUILD_ALL_PAGES", "1")
+    assert all(p.built for p in Dashboard(grow).tabs.pages)
 
 
 def test_pot_travel_marker_sits_on_the_exact_curve(shared_dash):
