@@ -35,6 +35,72 @@ READ_SOURCE = """([name, column]) => {
 }"""
 
 
+# Records when each kernel websocket message leaves or reaches the page, with its message type
+# (JSON text frames and JupyterLab's binary v1 frames), so a slider step can be split into its
+# legs: key press -> message sent, -> first reply, -> last plot message, -> data in BokehJS.
+WS_TRACE = """(() => {
+  const log = [];
+  window.__pwmkitWsLog = log;
+  const Native = window.WebSocket;
+  const decoder = new TextDecoder();
+  function kind(data) {
+    try {
+      if (typeof data === "string") { const m = JSON.parse(data); return (m.header && m.header.msg_type) || "?"; }
+      const buf = data instanceof ArrayBuffer ? data : (ArrayBuffer.isView(data) ? data.buffer : null);
+      if (buf === null) { return "?"; }
+      const dv = new DataView(buf);
+      const n = Number(dv.getBigUint64(0, true));
+      const offsets = [];
+      for (let i = 0; i < n; i++) { offsets.push(Number(dv.getBigUint64(8 * (i + 1), true))); }
+      const header = JSON.parse(decoder.decode(new Uint8Array(buf, offsets[1], offsets[2] - offsets[1])));
+      return header.msg_type || "?";
+    } catch (e) { return "?"; }
+  }
+  function content(data) {
+    try {
+      if (typeof data === "string") { return data.slice(0, 600); }
+      const buf = data instanceof ArrayBuffer ? data : data.buffer;
+      const dv = new DataView(buf);
+      const n = Number(dv.getBigUint64(0, true));
+      const offsets = [];
+      for (let i = 0; i < n; i++) { offsets.push(Number(dv.getBigUint64(8 * (i + 1), true))); }
+      const end = offsets.length > 5 ? offsets[5] : buf.byteLength;
+      return decoder.decode(new Uint8Array(buf, offsets[4], end - offsets[4])).slice(0, 600);
+    } catch (e) { return "?"; }
+  }
+  const size = (d) => (typeof d === "string" ? d.length : (d.byteLength || 0));
+  class Traced extends Native {
+    constructor(...args) {
+      super(...args);
+      this.addEventListener("message", (ev) => {
+        const entry = ["in", performance.now(), kind(ev.data), size(ev.data)];
+        if (window.__pwmkitWsContent) { entry.push(content(ev.data)); }
+        log.push(entry);
+      });
+    }
+    send(data) {
+      const entry = ["out", performance.now(), kind(data), size(data)];
+      if (window.__pwmkitWsContent) { entry.push(content(data)); }
+      log.push(entry);
+      return super.send(data);
+    }
+  }
+  window.WebSocket = Traced;
+})();"""
+
+
+def _legs(log: list, start: float, t_readout: float, t_plot: float) -> tuple[float, float, float, float] | None:
+    """(press -> comm sent, sent -> first comm reply, -> last comm message before the data changed,
+    that message -> data in BokehJS) [ms] from a websocket trace, or None when it holds no comm message."""
+    sent = [t for d, t, k, *_n in log if d == "out" and k == "comm_msg" and t >= start]
+    if not sent:
+        return None
+    replies = [t for d, t, k, *_n in log if d == "in" and k == "comm_msg" and sent[0] <= t <= t_plot + start]
+    if not replies:
+        return None
+    return sent[0] - start, replies[0] - sent[0], replies[-1] - replies[0], t_plot + start - replies[-1]
+
+
 def _run_all(page) -> None:
     """Run ▸ Run All Cells; repeated once if no cell started (a kernel still connecting drops it)."""
     for _attempt in range(3):
@@ -68,6 +134,7 @@ def shot_on_failure(page, artifacts, request):
 def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot_on_failure):
     from playwright.sync_api import expect
 
+    page.add_init_script(WS_TRACE)
     page.goto(lab.page_url(NOTEBOOK))
     page.wait_for_selector(".jp-Notebook", timeout=90_000)
     page.wait_for_timeout(1000)
@@ -112,7 +179,11 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
 
     # 1b — how long one slider step takes to reach the readout and the plot data (printed, not asserted:
     # the suite holds no timed assertions; issue 12 aims at <= 150 ms and <= 300 ms)
-    timings = []
+    timings, legs = [], []
+    page.evaluate("() => { window.__pwmkitWsLog.length = 0; }")
+    import os
+    if os.environ.get("PWMKIT_TRACE_DUMP"):
+        page.evaluate("() => { window.__pwmkitWsContent = true; }")
     for step in range(6):  # left and right in turn: the wiper ends where it started
         page.wait_for_timeout(400)  # let the previous change settle
         text_before = duty.inner_text()
@@ -131,10 +202,24 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
             arg=data_before, polling="raf", timeout=20_000)
         t_plot = page.evaluate("() => performance.now()") - start
         timings.append((t_readout, t_plot))
+        raw = page.evaluate("() => window.__pwmkitWsLog.slice()")
+        import os
+        if os.environ.get("PWMKIT_TRACE_DUMP"):
+            print("STEP", step, f"readout {t_readout:.0f} plot {t_plot:.0f}")
+            for d, t, k, n, *c in raw:
+                print(f"   {d:3} {t - start:8.1f} {k:24} {n} {c[0][:600] if c else ''}")
+        trace = _legs(raw, start, t_readout, t_plot)
+        if trace is not None:
+            legs.append(trace)
+        page.evaluate("() => { window.__pwmkitWsLog.length = 0; }")
     med_readout = sorted(t for t, _ in timings)[len(timings) // 2]
     med_plot = sorted(t for _, t in timings)[len(timings) // 2]
     line = (f"browser: slider step -> readout {med_readout:.0f} ms, -> plot data {med_plot:.0f} ms "
             f"(median of {len(timings)}; aim <= 150 ms and <= 300 ms)")
+    if legs:
+        med = [sorted(leg[i] for leg in legs)[len(legs) // 2] for i in range(4)]
+        line += ("\nbrowser: legs (median): key press -> comm message sent {:.0f} ms, -> first reply {:.0f} ms, "
+                 "-> last reply {:.0f} ms, -> data in BokehJS {:.0f} ms".format(*med))
     print(line)
     (artifacts / "browser_timings.txt").write_text(line + "\n", encoding="utf-8")
 
