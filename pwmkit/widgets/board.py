@@ -116,7 +116,8 @@ class Dashboard(w.VBox):
     formulas : FormulasPanel; schematic : SchematicPanel or None (None without pwmkit.schematic/schemdraw)
     control_heater : ControlHeaterPanel or None — two-timer designs and heater loads (first tab)
     crosscheck : CrossCheckBox or None (None where ngspice is not installed)
-    as_built : AsBuiltPanel or None (a design without bench readings has no "As built" tab)
+    as_built : AsBuiltPanel or None (no "As built" tab until the design has bench readings: the tab
+        is added when a design with readings is opened or made, and stays)
     tabs : PageTabs — each page a :class:`~pwmkit.widgets.tabs.LazyPage`
 
     The panels of the tab pages are built when their page is first shown, when the attribute is
@@ -171,10 +172,9 @@ class Dashboard(w.VBox):
             own = [(t, (lambda: TwoTimerCandidatesPanel(s)) if t == "Candidates" else f) for t, f in own]
         for (title, factory), attr in zip(own, ("requirements", "parts", "candidates", "conditions")):
             pages.append(page(title, attr, factory))
+        self._debounce = debounce
         if s.design.bench:  # bench readings: the "as designed vs as built" tab (pwmkit.widgets.bench)
-            from .bench import AsBuiltPanel
-
-            pages.append(page("As built", "as_built", lambda: AsBuiltPanel(s, debounce=max(debounce, 0.6))))
+            pages.append(page("As built", "as_built", self._as_built_factory()))
         self.tabs = PageTabs(pages)  # not ipywidgets.Tab: see pwmkit.widgets.tabs (reload-proof)
         self.timing.layout.width = "440px" if not two_timer else "560px"
         self.timing.layout.min_width = self.timing.layout.width
@@ -199,6 +199,7 @@ class Dashboard(w.VBox):
         self._pages = [p for _t, p in pages]
         self.tabs.observe(self._on_tab, names="selected_index")
         s.subscribe(self._refresh_header)
+        s.subscribe(self._add_as_built)  # a design opened later may bring bench readings
         s.subscribe_spread(lambda _ev: self._refresh_header(s.evaluation))
         self._refresh_header(s.evaluation)
         loop = _running_loop()
@@ -214,6 +215,22 @@ class Dashboard(w.VBox):
     def _first_page(self, loop: Any) -> None:
         self._on_tab({"new": self.tabs.selected_index})
         self._schedule_prefetch(loop)
+
+    def _as_built_factory(self) -> Any:
+        from .bench import AsBuiltPanel
+
+        s, debounce = self.session, self._debounce
+        return lambda: AsBuiltPanel(s, debounce=max(debounce, 0.6))
+
+    def _add_as_built(self, _evaluation: Any) -> None:
+        """Add the "As built" tab when the design now has bench readings (Open, Revert) and had none."""
+        try:
+            if self.session.design.bench and "as_built" not in self._lazy:
+                self._lazy["as_built"] = LazyPage(self._as_built_factory())
+                self.tabs.add_page("As built", self._lazy["as_built"])
+                self._pages.append(self._lazy["as_built"])
+        except Exception:  # never raise into a session listener
+            log.exception("pwmkit: adding the As built tab failed")
 
     # -- pages built on demand --------------------------------------------------------------------
     def _panel(self, attr: str) -> Any:

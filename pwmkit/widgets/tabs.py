@@ -83,6 +83,19 @@ class PageTabs(w.VBox):
     def titles(self) -> tuple[str, ...]:
         return tuple(label for label, _i in self.bar.options)
 
+    def add_page(self, title: str, page: w.Widget) -> int:
+        """Append a page (hidden; the selected page stays); returns its index."""
+        page.add_class("pwmkit-tabpage")
+        page.layout.display = "none"
+        selected = self.selected_index
+        titles = (*self.titles, title)
+        self._pages = (*self._pages, page)
+        with self.hold_sync():
+            self.body.children = self._pages
+            self.bar.options = [(t, i) for i, t in enumerate(titles)]
+            self.bar.value = selected
+        return len(self._pages) - 1
+
     @property
     def pages(self) -> tuple[w.Widget, ...]:
         return self._pages

@@ -169,6 +169,28 @@ def test_dashboard_gets_an_as_built_tab_only_with_readings():
     assert "OUTSIDE" in panel.summary.value
 
 
+def test_opening_a_file_with_readings_adds_the_as_built_tab(tmp_path):
+    pytest.importorskip("ipywidgets")
+    import shutil
+
+    from pwmkit.widgets import dashboard
+
+    for name in ("greenhouse-fan.toml", "greenhouse-fan-as-built.toml", "fan-bench-demo.csv"):
+        shutil.copy(ROOT / "examples" / name, tmp_path / name)
+    dash = dashboard(tmp_path / "greenhouse-fan.toml")
+    titles = dash.tabs.titles
+    assert "As built" not in titles and dash.as_built is None
+    dash.show_tab("Spread")
+    dash.file.do_open(str(tmp_path / "greenhouse-fan-as-built.toml"))
+    assert dash.file.message_text == "" and dash.design.bench
+    assert dash.tabs.titles == (*titles, "As built")
+    assert dash.tabs.titles[dash.tabs.selected_index] == "Spread"  # the page shown stays
+    dash.show_tab("As built")
+    assert dash.as_built.reconciliation is not None and dash.as_built.reconciliation.inside
+    dash.file.do_open(str(tmp_path / "greenhouse-fan.toml"))  # back to a design without readings: tab stays
+    assert dash.tabs.titles.count("As built") == 1 and dash.as_built.message_text == ""
+
+
 def test_demo_files_are_made_by_the_script(tmp_path):
     import subprocess
 
