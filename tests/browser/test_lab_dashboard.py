@@ -9,6 +9,7 @@ Screenshots go to test-artifacts/.
 
 from __future__ import annotations
 
+import os
 import re
 
 import pytest
@@ -181,8 +182,8 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     # the suite holds no timed assertions; issue 12 aims at <= 150 ms and <= 300 ms)
     timings, legs = [], []
     page.evaluate("() => { window.__pwmkitWsLog.length = 0; }")
-    import os
-    if os.environ.get("PWMKIT_TRACE_DUMP"):
+    dump = bool(os.environ.get("PWMKIT_TRACE_DUMP"))  # print every message of each step (diagnosis)
+    if dump:
         page.evaluate("() => { window.__pwmkitWsContent = true; }")
     for step in range(6):  # left and right in turn: the wiper ends where it started
         page.wait_for_timeout(400)  # let the previous change settle
@@ -203,8 +204,7 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
         t_plot = page.evaluate("() => performance.now()") - start
         timings.append((t_readout, t_plot))
         raw = page.evaluate("() => window.__pwmkitWsLog.slice()")
-        import os
-        if os.environ.get("PWMKIT_TRACE_DUMP"):
+        if dump:
             print("STEP", step, f"readout {t_readout:.0f} plot {t_plot:.0f}")
             for d, t, k, n, *c in raw:
                 print(f"   {d:3} {t - start:8.1f} {k:24} {n} {c[0][:600] if c else ''}")

@@ -1,4 +1,5 @@
-"""A newcomer's first hour: the README's set-up command, a wheel install, `pwmkit lab` as root.
+"""A newcomer's first hour: the README's set-up command (as root and as a normal user), a wheel install,
+`pwmkit lab` as root.
 
 The slow tests build and install pwmkit the way a new user does (fresh clone or wheel, a new
 virtual environment, the package registry through pip) and run the headless `pwmkit lab`; they
@@ -86,6 +87,53 @@ def test_readme_setup_command_works_in_a_fresh_clone_with_debians_python(tmp_pat
     assert shutil.which("python3", path=env["PATH"]) == str(DEBIAN_PYTHON)
     out = subprocess.run(["bash", "-c", cmd], cwd=clone, env=env, capture_output=True, text=True, timeout=1500)
     _check_headless_result(out, clone)
+
+
+NORMAL_USER = 65534  # "nobody": an account every Debian/Ubuntu system has, with no rights of its own
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(not DEBIAN_PYTHON.is_file() or shutil.which("git") is None or shutil.which("setpriv") is None,
+                    reason="needs /usr/bin/python3, git, setpriv (util-linux)")
+def test_readme_setup_command_works_as_a_normal_user(tmp_path: Path) -> None:
+    """The same command run by an unprivileged account (setpriv drops root to "nobody")."""
+    if os.geteuid() != 0:
+        pytest.skip("already a normal user: test_readme_setup_command_works_in_a_fresh_clone… is this case")
+    probe = subprocess.run([str(DEBIAN_PYTHON), "-c", "import ensurepip, venv"], capture_output=True)
+    if probe.returncode != 0:
+        pytest.skip("Debian's python3-venv is not installed (.ci/run installs it)")
+    import tempfile
+
+    # pytest's tmp_path is private to root: the account gets a folder of its own under /tmp
+    top = Path(tempfile.mkdtemp(prefix="pwmkit-user-", dir="/tmp"))
+    try:
+        clone = top / "clone"
+        subprocess.run(["git", "clone", "-q", "--no-hardlinks", str(REPO), str(clone)], check=True)
+        tracked = subprocess.run(["git", "ls-files", "-z"], cwd=REPO, capture_output=True, check=True).stdout
+        for name in filter(None, tracked.decode().split("\0")):
+            src = REPO / name
+            if src.is_file():
+                (clone / name).parent.mkdir(parents=True, exist_ok=True)
+                shutil.copy2(src, clone / name)
+        env = _headless_env(top)
+        # the account cannot read root's pip configuration or cache: a copy of the configuration,
+        # a cache of its own
+        if "PIP_CONFIG_FILE" in env:
+            shutil.copy(env["PIP_CONFIG_FILE"], top / "pip.conf")
+            env["PIP_CONFIG_FILE"] = str(top / "pip.conf")
+        env["PIP_CACHE_DIR"] = str(top / "pip-cache")
+        subprocess.run(["chown", "-R", f"{NORMAL_USER}:{NORMAL_USER}", str(top)], check=True)
+        top.chmod(0o755)
+        drop = ["setpriv", f"--reuid={NORMAL_USER}", f"--regid={NORMAL_USER}", "--clear-groups", "--"]
+        who = subprocess.run([*drop, "id", "-u"], env=env, capture_output=True, text=True, check=True).stdout
+        assert who.strip() == str(NORMAL_USER)
+        out = subprocess.run([*drop, "bash", "-c", readme_setup_command()], cwd=clone, env=env, capture_output=True,
+                             text=True, timeout=1500)
+        _check_headless_result(out, clone)
+        assert "running as root" not in out.stderr
+        assert (clone / ".venv").stat().st_uid == NORMAL_USER
+    finally:
+        shutil.rmtree(top, ignore_errors=True)
 
 
 @pytest.mark.slow
