@@ -98,14 +98,12 @@ class Verification:
 
     def table(self) -> str:
         """Plain-text table: quantity, model, circuit, difference, tolerance, verdict."""
-        from ..values import format_value
-
-        head = f"{'quantity':34} {'model':>13} {'circuit':>13} {'diff':>9} {'tol':>7}  result"
+        width = max([34, *(len(r.label) for r in self.rows)])
+        head = f"{'quantity':{width}} {'model':>13} {'circuit':>13} {'diff':>9} {'tol':>7}  result"
         lines = [head, "-" * len(head)]
         for r in self.rows:
-            m = format_value(r.model, r.unit, 6) if r.unit else f"{r.model:.6g}"
-            s = format_value(r.simulation, r.unit, 6) if r.unit else f"{r.simulation:.6g}"
-            lines.append(f"{r.label:34} {m:>13} {s:>13} {100 * r.difference:>+8.3f}% {100 * r.tolerance:>6.2g}%  "
+            m, s = _shown(r, r.model), _shown(r, r.simulation)
+            lines.append(f"{r.label:{width}} {m:>13} {s:>13} {100 * r.difference:>+8.3f}% {100 * r.tolerance:>6.2g}%  "
                          f"{'pass' if r.passed else 'FAIL'}")
         verdict = "passes" if self.passed else "FAILS"
         lines.append(f"→ {self.design} {verdict} the circuit cross-check ({len(self.rows)} quantities, ngspice).")
@@ -121,15 +119,23 @@ class Verification:
         return f"Verification({self.design!r}, {self.what}: {len(self.rows)} quantities, {bad} outside tolerance)"
 
     def _repr_html_(self) -> str:
-        from ..values import format_value
-
         cells = "".join(
-            f"<tr><td>{html.escape(r.label)}</td><td>{html.escape(format_value(r.model, r.unit, 6))}</td>"
-            f"<td>{html.escape(format_value(r.simulation, r.unit, 6))}</td><td>{100 * r.difference:+.3f} %</td>"
+            f"<tr><td>{html.escape(r.label)}</td><td>{html.escape(_shown(r, r.model))}</td>"
+            f"<td>{html.escape(_shown(r, r.simulation))}</td><td>{100 * r.difference:+.3f} %</td>"
             f"<td>{100 * r.tolerance:.2g} %</td><td>{'pass' if r.passed else '<strong>FAIL</strong>'}</td></tr>"
             for r in self.rows)
         return ("<table class='pwmkit-verify'><caption>model vs circuit (ngspice)</caption><tr><th>quantity</th>"
                 f"<th>model</th><th>circuit</th><th>difference</th><th>tolerance</th><th></th></tr>{cells}</table>")
+
+
+def _shown(row: CheckRow, value: float) -> str:
+    """Screen text of a model or circuit value: duties in percent, others with their SI prefix (6 digits)."""
+    from ..numstyle import screen
+    from ..values import format_value
+
+    if "duty" in row.key:  # a fraction in the row (and in --json); people read duty in percent
+        return screen(value, "duty", 6)
+    return format_value(value, row.unit, 6) if row.unit else f"{value:.6g}"
 
 
 def _row(key: str, label: str, unit: str, model: float, simulation: float) -> CheckRow:

@@ -85,6 +85,11 @@ def test_demo_designs_pass_the_circuit_cross_check(name: str) -> None:
     freq = next(r for r in res.rows if r.key == "frequency")
     assert abs(freq.difference) < 1e-3  # the diode-law model and the circuit: same physics
     assert "model vs circuit" in res._repr_html_() and "pass" in res.table()
+    # duty is shown in percent (the row and --json keep the fraction)
+    duty = next(r for r in res.rows if r.key == "duty")
+    assert 0 < duty.model < 1
+    line = next(ln for ln in res.table().splitlines() if ln.startswith(duty.label))
+    assert f"{100 * duty.model:.4f}"[:5] in line and " %" in line
 
 
 @needs_ngspice
