@@ -262,7 +262,7 @@ def design_to_toml(design: Design) -> str:
     return "\n".join(lines)
 
 
-def save_design(design: Design, path: str | os.PathLike[str], *, force: bool = False) -> Path:
+def save_design(design: Design, path: str | os.PathLike[str], *, force: bool = False, trailer: str = "") -> Path:
     """Write a design file atomically.
 
     Parameters
@@ -272,6 +272,9 @@ def save_design(design: Design, path: str | os.PathLike[str], *, force: bool = F
         Destination (``.toml``); its folder must exist.
     force : bool
         Replace an existing file; without it an existing file raises :class:`DesignError`.
+    trailer : str
+        Comment lines written after the design (see :func:`trailing_comments`); every non-blank
+        line must start with ``#``.
 
     Returns
     -------
@@ -284,7 +287,28 @@ def save_design(design: Design, path: str | os.PathLike[str], *, force: bool = F
     replaces the destination in one :func:`os.replace`; an error midway leaves the old file intact.
     """
     text = design_to_toml(design)
+    if trailer.strip():
+        if any(line.strip() and not line.lstrip().startswith("#") for line in trailer.splitlines()):
+            raise DesignError("trailer: only comment lines (starting with #) may follow the design")
+        text = text.rstrip("\n") + "\n" + ("" if trailer.startswith("\n") else "\n") + trailer.rstrip("\n") + "\n"
     return atomic_write(path, text, force=force)
+
+
+def trailing_comments(text: str) -> str:
+    """The comment lines at the end of a design file's text (after the last setting), or "".
+
+    ``pwmkit new`` writes the other part sets it found there; the dashboard keeps them when it
+    saves the file again. Comments between the settings are not kept (the file is rewritten from
+    the design), nor is a comment block that the writer itself puts at the end.
+    """
+    lines = text.rstrip().splitlines()
+    start = len(lines)
+    while start > 0 and (not lines[start - 1].strip() or lines[start - 1].lstrip().startswith("#")):
+        start -= 1
+    block = [ln for ln in lines[start:]]
+    while block and not block[0].strip():
+        block.pop(0)
+    return "\n".join(block) + "\n" if any(ln.strip() for ln in block) else ""
 
 
 # --------------------------------------------------------------------------------------------

@@ -44,17 +44,23 @@ class DesignFileState:
         self.path = None if path is None else Path(path)
         self.saved = saved
         self.digest = None if self.path is None else _digest(self.path)
+        #: comment lines at the end of the file (e.g. the other part sets `pwmkit new` found), kept on save
+        self.trailer = ""
 
     @classmethod
     def load(cls, path: str | os.PathLike[str]) -> tuple[DesignFileState, Design]:
         """Read a design file; returns the state and the design (DesignError when unreadable)."""
-        from ..record.designfile import load_design
+        from ..record.designfile import load_design, trailing_comments
 
         p = Path(path)
         data_digest = _digest(p)
         design = load_design(p)
         state = cls(p, design)
         state.digest = data_digest
+        try:
+            state.trailer = trailing_comments(p.read_text(encoding="utf-8"))
+        except (OSError, UnicodeDecodeError):  # it was just read as a design: keep going without the comments
+            state.trailer = ""
         return state, design
 
     def dirty(self, design: Design) -> bool:
@@ -87,7 +93,7 @@ class DesignFileState:
                               "Revert to load the file as it is now, or Save as another name")
         if not same and target.exists():
             raise DesignError(f"{target}: already exists — not saved; choose another name (or Open it)")
-        save_design(design, target, force=same)
+        save_design(design, target, force=same, trailer=self.trailer)
         self.path, self.saved, self.digest = target, design, _digest(target)
         return target
 

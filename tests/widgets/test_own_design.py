@@ -83,6 +83,25 @@ def test_save_refuses_a_file_changed_on_disk_and_revert_reloads(fan_file: Path) 
     assert "already exists" in dash.file.message_text
 
 
+def test_save_keeps_the_comment_lines_at_the_end_of_the_file(fan_file: Path) -> None:
+    # `pwmkit new` writes the other part sets it found as comments after the settings
+    from pwmkit.widgets import dashboard
+
+    block = "# Part sets found by `pwmkit new`\n# * 1 pot 1 kΩ | meets\n#   2 steered 2.2 kΩ | misses: duty\n"
+    fan_file.write_text(fan_file.read_text(encoding="utf-8") + "\n" + block, encoding="utf-8")
+    dash = dashboard(fan_file)
+    dash.timing.set_value("c", "1n")
+    dash.file.do_save()
+    text = fan_file.read_text(encoding="utf-8")
+    assert "saved" in dash.file.message_text and load_design(fan_file).timing.c == 1e-9
+    assert text.endswith("\n\n" + block) and text.count("Part sets found") == 1
+    dash.timing.set_value("c", "1.2n")
+    dash.file.do_save()  # again: the block is not doubled
+    assert fan_file.read_text(encoding="utf-8").count("Part sets found") == 1
+    with pytest.raises(Exception, match="only comment lines"):
+        save_design(dash.design, fan_file, force=True, trailer="r = 5\n")
+
+
 def test_open_asks_before_discarding_edits(fan_file: Path, tmp_path: Path) -> None:
     from pwmkit.widgets import dashboard
 
