@@ -246,6 +246,25 @@ def _not_run(design: Any, ev: Any, rule_id: str, title: str, nominal_text: str) 
                    "See the tolerance-analysis finding.", "common-practice")
 
 
+def _duty_reach_verdict(design: Any, ev: Any, rs: Any, title: str, nominal_text: str, want_lo: float,
+                        want_hi: float, what: str, remedy: str) -> Any:
+    """``duty.range`` when the duty must *reach* both ends ``want_lo … want_hi`` (pot travel, control range).
+
+    ``what`` names what moves the duty in the band text ("travel", "range"); the nominal point
+    has already passed. Not run without the requirement spread ``rs``.
+    """
+    if rs is None:
+        return _not_run(design, ev, "duty.range", title, nominal_text)
+    band = f"over the corners the {what} reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
+    bad = []
+    if rs.duty_low > want_lo + 1e-12:
+        bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
+    if rs.duty_high < want_hi - 1e-12:
+        bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
+    return _spread_verdict(design, ev, "duty.range", title, nominal_text, "points", rs.duty_inside(), band,
+                           " and ".join(bad) or "every corner reaches it", rs.duty_yield, remedy)
+
+
 @_rule("duty.range")
 def duty_range(design: Any, ev: Any) -> Any:
     """The required duty range is reachable — by the stated acceptance criterion.
@@ -280,18 +299,9 @@ def duty_range(design: Any, ev: Any) -> Any:
                            f"The pot travel reaches {pct(lo)} … {pct(hi)} duty; required {window}.",
                            "Lower the end resistors relative to the pot, or use a larger pot.", "common-practice")
         nominal = f"The pot travel reaches {pct(lo)} … {pct(hi)} duty at the nominal values (required {window})"
-        if rs is None:
-            return _not_run(design, ev, "duty.range", title, nominal)
-        band = f"over the corners the travel reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
-        bad = []
-        if rs.duty_low > want_lo + 1e-12:
-            bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
-        if rs.duty_high < want_hi - 1e-12:
-            bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
-        return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
-                               " and ".join(bad) or "every corner reaches it", rs.duty_yield,
-                               "Lower the end resistors relative to the pot (more travel margin beyond the "
-                               "required range), or use tighter parts.")
+        return _duty_reach_verdict(design, ev, rs, title, nominal, want_lo, want_hi, "travel",
+                                   "Lower the end resistors relative to the pot (more travel margin beyond the "
+                                   "required range), or use tighter parts.")
     d = float(ev.timing.duty)
     off = max(want_lo - d, d - want_hi, 0.0)
     if off > 0:
