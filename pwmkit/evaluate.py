@@ -652,6 +652,69 @@ def _motor_part(design: Any, timing: Any, gate: Any, duty_range: tuple[float, fl
     p["clamp"] = clamp_decay(load.l, load.r, mc.i_max, v_clamp, e=speed.e, v_supply=v)
 
 
+def _gate_part(design: Any, fam: Any, limits: type[DesignError]) -> tuple[Any, str | None]:
+    """Gate drive from the timer output, and why not: ``(gate, None)``, ``(None, message)`` when the
+    drive hits one of ``limits``, or ``(None, None)`` without a load."""
+    from .loads.mosfet import gate_drive
+
+    if design.load is None:
+        return None, None
+    try:
+        return gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
+                          design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low), None
+    except limits as exc:
+        return None, str(exc)
+
+
+def _no_load_parts() -> dict[str, Any]:
+    """The load figures of an :class:`Evaluation`, all None until the load's part fills them."""
+    return dict(led=None, led_corners=None, flicker=None, lightness=None, motor=None, motor_speed=None,
+                motor_stall=None, motor_stall_diode=None, freewheel=None, clamp=None, mosfet=None, v_clamp=None)
+
+
+def _led_losses(design: Any, timing: Any, gate: Any, f: float, p: dict[str, Any]) -> None:
+    """LED string figures and the MOSFET's losses driving it at ``f`` [Hz] (into ``p``)."""
+    from .loads.mosfet import mosfet_losses
+
+    _led_part(design, timing, gate, p)
+    if p["led"] is not None:
+        p["mosfet"] = mosfet_losses(gate, design.load_supply, p["led"].i_peak_total, p["led"].i_rms_total, f,
+                                    design.t_ambient_max_c)
+
+
+def _motor_losses(design: Any, timing: Any, gate: Any, duty_range: tuple[float, float], f: float,
+                  p: dict[str, Any]) -> None:
+    """Motor figures and the MOSFET's losses (clamped turn-off, diode recovery) at ``f`` [Hz] (into ``p``)."""
+    from .loads.mosfet import mosfet_losses
+    from .parts.diodes import get_diode
+
+    _motor_part(design, timing, gate, duty_range, p)
+    if p["motor"] is not None:
+        mc, dio = p["motor"], get_diode(design.freewheel.diode)
+        p["mosfet"] = mosfet_losses(gate, design.load_supply + p["v_clamp"], mc.i_min, mc.i_switch_rms, f,
+                                    design.t_ambient_max_c, i_off=mc.i_max,
+                                    q_rr=dio.q_rr if dio.has_recovery else 0.0)
+
+
+def _heater_losses(design: Any, heater: Any, gate: Any, f: float) -> Any:
+    """The MOSFET's losses switching the hot heater element at ``f`` [Hz], or None without a gate drive."""
+    from .loads.mosfet import mosfet_losses
+
+    if gate is None:
+        return None
+    el = heater.hot
+    return mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c, i_off=el.i_on)
+
+
+def _judged(design: Any, ev: Evaluation) -> Evaluation:
+    """The evaluation with its findings and then its cautions (which read the findings) filled in."""
+    from . import cautions as _cautions
+    from .checks import run_checks
+
+    ev = replace(ev, findings=run_checks(design, ev))
+    return replace(ev, cautions=_cautions.cautions_for(design, ev))
+
+
 def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int = 1,
              diode_law: bool | None = None) -> Evaluation:
     """Evaluate a design: timing, gate drive, load, losses, tolerance spread, findings and cautions.
@@ -687,11 +750,8 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
     >>> round(ev.timing.frequency), ev.motor.mode
     (29871, 'continuous')
     """
-    from . import cautions as _cautions
-    from .checks import Findings, run_checks
+    from .checks import Findings
     from .design import Design
-    from .loads.mosfet import gate_drive, mosfet_losses
-    from .parts.diodes import get_diode
     from .parts.timers import get_timer
     from .timing import astable, astable_ideal
 
@@ -718,38 +778,18 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
         travel = _pot_travel(t.topology, kw) if t.topology == "pot" else None
         corners = _corners(design, kw, travel)
         duty_range = travel.duty_range if travel is not None else (float(timing.duty), float(timing.duty))
-        fam = get_timer(t.timer)
-        gate, gate_error = None, None
-        if design.load is not None:
-            try:
-                gate = gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
-                                  design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low)
-            except ModelLimit as exc:
-                gate_error = str(exc)
-        p: dict[str, Any] = dict(led=None, led_corners=None, flicker=None, lightness=None, motor=None,
-                                 motor_speed=None, motor_stall=None, motor_stall_diode=None, freewheel=None,
-                                 clamp=None, mosfet=None, v_clamp=None)
+        gate, gate_error = _gate_part(design, get_timer(t.timer), ModelLimit)
+        p = _no_load_parts()
         f = float(timing.frequency)
         if design.load is not None and design.load.kind == "led":
-            _led_part(design, timing, gate, p)
-            if p["led"] is not None:
-                p["mosfet"] = mosfet_losses(gate, design.load_supply, p["led"].i_peak_total, p["led"].i_rms_total, f,
-                                            design.t_ambient_max_c)
+            _led_losses(design, timing, gate, f, p)
         elif design.load is not None and design.load.kind == "heater":
             from .evaluate_heater import heater_part
 
             p["heater"] = heater_part(design, float(timing.duty), f, 0.0 if gate is None else float(gate.rds_on_25))
-            if gate is not None:
-                el = p["heater"].hot
-                p["mosfet"] = mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c,
-                                            i_off=el.i_on)
+            p["mosfet"] = _heater_losses(design, p["heater"], gate, f)
         elif design.load is not None:
-            _motor_part(design, timing, gate, duty_range, p)
-            if p["motor"] is not None:
-                mc, dio = p["motor"], get_diode(design.freewheel.diode)
-                p["mosfet"] = mosfet_losses(gate, design.load_supply + p["v_clamp"], mc.i_min, mc.i_switch_rms, f,
-                                            design.t_ambient_max_c, i_off=mc.i_max,
-                                            q_rr=dio.q_rr if dio.has_recovery else 0.0)
+            _motor_losses(design, timing, gate, duty_range, f, p)
         dl = None
         if want_diode_law and t.topology != "classic":
             from .timing import diode_law_timing
@@ -775,8 +815,7 @@ def evaluate(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int 
                         timer_output=_timer_output(design, gate), gate=gate, corners=corners, spread=spread_res,
                         worst_case=worst, sensitivity=sens, conditions=cond, findings=Findings(()), cautions=(),
                         requirement_spread=req_spread, **p)
-        ev = replace(ev, findings=run_checks(design, ev))
-        ev = replace(ev, cautions=_cautions.cautions_for(design, ev))
+        ev = _judged(design, ev)
     bad = [k for k, v in ev.key_results().items() if isinstance(v, float) and not math.isfinite(v)]
     if bad:  # pragma: no cover - key_results drops non-finite values; kept as a guard
         raise DesignError(f"evaluate: non-finite results for {', '.join(bad)}; check the orders of magnitude")

@@ -13,7 +13,7 @@ the pin voltage follows the supply (ratiometric).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -49,19 +49,21 @@ class TwoTimerPart:
 
 def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, seed: int = 1) -> Any:
     """Evaluation of a design with ``timing.topology == "two-timer"`` (see the module docstring)."""
-    from . import cautions as _cautions
-    from .checks import Findings, run_checks
+    from .checks import Findings
     from .evaluate import (
         Conditions,
         Evaluation,
         SupplyCorners,
-        _led_part,
+        _gate_part,
+        _heater_losses,
+        _judged,
+        _led_losses,
         _load_supply_range,
-        _motor_part,
+        _motor_losses,
+        _no_load_parts,
         _timer_output,
     )
     from .evaluate_heater import heater_part
-    from .loads.mosfet import gate_drive, mosfet_losses
     from .parts.timers import get_timer
     from .timing import astable, two_timer_pwm
     from .two_timer_design import (
@@ -79,13 +81,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
     with np.errstate(all="ignore"):
         clock = astable("classic", **t.astable_kwargs(design.vcc))
         kw = t.two_timer_kwargs(design.vcc)
-        gate, gate_error = None, None
-        if design.load is not None:
-            try:
-                gate = gate_drive(fam.output_high(design.vcc), fam.output_source_resistance(design.vcc),
-                                  design.switch.r_gate, design.switch.mosfet, r_sink=fam.r_out_low)
-            except DesignError as exc:
-                gate_error = str(exc)
+        gate, gate_error = _gate_part(design, fam, DesignError)
         rds = 0.0 if gate is None else float(gate.rds_on_25)
         loop_mode = design.load is not None and design.load.kind == "heater" and design.load.has_loop
         v_pin, v_source, loop = operating_point(design)
@@ -114,32 +110,17 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                    else SupplyCorners(lo, hi, corner_res[0], corner_res[1], None))
         duty_range = ((control.duty_low, control.duty_high) if control is not None
                       else (float(timing.duty), float(timing.duty)))
-        p: dict[str, Any] = dict(led=None, led_corners=None, flicker=None, lightness=None, motor=None,
-                                 motor_speed=None, motor_stall=None, motor_stall_diode=None, freewheel=None,
-                                 clamp=None, mosfet=None, v_clamp=None)
+        p = _no_load_parts()
         f = float(timing.frequency)
         heater = None
         if design.load is not None and design.load.kind == "led":
-            _led_part(design, timing, gate, p)
-            if p["led"] is not None:
-                p["mosfet"] = mosfet_losses(gate, design.load_supply, p["led"].i_peak_total, p["led"].i_rms_total, f,
-                                            design.t_ambient_max_c)
+            _led_losses(design, timing, gate, f, p)
         elif design.load is not None and design.load.kind == "motor":
-            from .parts.diodes import get_diode
-
-            _motor_part(design, timing, gate, duty_range, p)
-            if p["motor"] is not None:
-                mc, dio = p["motor"], get_diode(design.freewheel.diode)
-                p["mosfet"] = mosfet_losses(gate, design.load_supply + p["v_clamp"], mc.i_min, mc.i_switch_rms, f,
-                                            design.t_ambient_max_c, i_off=mc.i_max,
-                                            q_rr=dio.q_rr if dio.has_recovery else 0.0)
+            _motor_losses(design, timing, gate, duty_range, f, p)
         elif design.load is not None:
             heater = heater_part(design, float(timing.duty), f, rds, loop=loop if loop_mode else None,
                                  spread=bool(spread))
-            if gate is not None:
-                el = heater.hot
-                p["mosfet"] = mosfet_losses(gate, design.load_supply, el.i_on, el.i_rms, f, design.t_ambient_max_c,
-                                            i_off=el.i_on)
+            p["mosfet"] = _heater_losses(design, heater, gate, f)
         spread_res = worst = spread_note = req_spread = None
         stops = False
         if spread and corners.error is None:
@@ -181,8 +162,7 @@ def evaluate_two_timer(design: Any, *, spread: bool = True, n_mc: int = 20_000, 
                         timer_output=_timer_output(design, gate), gate=gate, corners=corners, spread=spread_res,
                         worst_case=worst, sensitivity=None, conditions=cond, findings=Findings(()), cautions=(),
                         two_timer=part, heater=heater, requirement_spread=req_spread, **p)
-        ev = replace(ev, findings=run_checks(design, ev))
-        ev = replace(ev, cautions=_cautions.cautions_for(design, ev))
+        ev = _judged(design, ev)
     bad = [k for k, v in ev.key_results().items() if isinstance(v, float) and not math.isfinite(v)]
     if bad:  # pragma: no cover - key_results drops non-finite values; kept as a guard
         raise DesignError(f"evaluate: non-finite results for {', '.join(bad)}")

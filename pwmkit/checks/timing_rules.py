@@ -8,6 +8,7 @@ Thresholds and their origins are in each rule's docstring.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from typing import Any
 
 import numpy as np
@@ -246,6 +247,47 @@ def _not_run(design: Any, ev: Any, rule_id: str, title: str, nominal_text: str) 
                    "See the tolerance-analysis finding.", "common-practice")
 
 
+def _duty_reach_verdict(design: Any, ev: Any, rs: Any, title: str, nominal_text: str, want_lo: float,
+                        want_hi: float, what: str, remedy: str) -> Any:
+    """``duty.range`` when the duty must *reach* both ends ``want_lo … want_hi`` (pot travel, control range).
+
+    ``what`` names what moves the duty in the band text ("travel", "range"); the nominal point
+    has already passed. Not run without the requirement spread ``rs``.
+    """
+    if rs is None:
+        return _not_run(design, ev, "duty.range", title, nominal_text)
+    band = f"over the corners the {what} reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
+    bad = []
+    if rs.duty_low > want_lo + 1e-12:
+        bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
+    if rs.duty_high < want_hi - 1e-12:
+        bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
+    return _spread_verdict(design, ev, "duty.range", title, nominal_text, "points", rs.duty_inside(), band,
+                           " and ".join(bad) or "every corner reaches it", rs.duty_yield, remedy)
+
+
+def _window_verdict(design: Any, ev: Any, rs: Any, rule_id: str, title: str, nominal_text: str, unit: str,
+                    name: str, show: Callable[[float], str], lo_req: float, hi_req: float, band_words: str,
+                    remedy: str) -> Any:
+    """A requirement whose spread must stay *inside* ``lo_req … hi_req`` (duty window, frequency window).
+
+    ``name`` is the quantity in the requirement spread ``rs`` ("duty", "frequency": its ``_low``,
+    ``_high``, ``_low_at``, ``_high_at``, ``_inside()`` and ``_yield``), ``show`` formats a value,
+    ``band_words`` opens the band text. The nominal point has already passed. Not run without ``rs``.
+    """
+    if rs is None:
+        return _not_run(design, ev, rule_id, title, nominal_text)
+    low, high = getattr(rs, f"{name}_low"), getattr(rs, f"{name}_high")
+    band = f"{band_words} {show(low)} … {show(high)}"
+    bad = []
+    if low < lo_req:
+        bad.append(f"lowest {show(low)} at {getattr(rs, f'{name}_low_at')}")
+    if high > hi_req:
+        bad.append(f"highest {show(high)} at {getattr(rs, f'{name}_high_at')}")
+    return _spread_verdict(design, ev, rule_id, title, nominal_text, unit, getattr(rs, f"{name}_inside")(), band,
+                           " and ".join(bad) or "every corner stays inside", getattr(rs, f"{name}_yield"), remedy)
+
+
 @_rule("duty.range")
 def duty_range(design: Any, ev: Any) -> Any:
     """The required duty range is reachable — by the stated acceptance criterion.
@@ -280,18 +322,9 @@ def duty_range(design: Any, ev: Any) -> Any:
                            f"The pot travel reaches {pct(lo)} … {pct(hi)} duty; required {window}.",
                            "Lower the end resistors relative to the pot, or use a larger pot.", "common-practice")
         nominal = f"The pot travel reaches {pct(lo)} … {pct(hi)} duty at the nominal values (required {window})"
-        if rs is None:
-            return _not_run(design, ev, "duty.range", title, nominal)
-        band = f"over the corners the travel reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
-        bad = []
-        if rs.duty_low > want_lo + 1e-12:
-            bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
-        if rs.duty_high < want_hi - 1e-12:
-            bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
-        return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
-                               " and ".join(bad) or "every corner reaches it", rs.duty_yield,
-                               "Lower the end resistors relative to the pot (more travel margin beyond the "
-                               "required range), or use tighter parts.")
+        return _duty_reach_verdict(design, ev, rs, title, nominal, want_lo, want_hi, "travel",
+                                   "Lower the end resistors relative to the pot (more travel margin beyond the "
+                                   "required range), or use tighter parts.")
     d = float(ev.timing.duty)
     off = max(want_lo - d, d - want_hi, 0.0)
     if off > 0:
@@ -300,16 +333,8 @@ def duty_range(design: Any, ev: Any) -> Any:
                        "Change the ratio of the charge and discharge resistors (use synthesis to pick values).",
                        "common-practice")
     nominal = f"The nominal duty {pct(d)} lies inside {window}"
-    if rs is None:
-        return _not_run(design, ev, "duty.range", title, nominal)
-    band = f"over the corners it moves {pct(rs.duty_low)} … {pct(rs.duty_high)}"
-    bad = []
-    if rs.duty_low < want_lo:
-        bad.append(f"lowest {pct(rs.duty_low)} at {rs.duty_low_at}")
-    if rs.duty_high > want_hi:
-        bad.append(f"highest {pct(rs.duty_high)} at {rs.duty_high_at}")
-    return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
-                           " and ".join(bad) or "every corner stays inside", rs.duty_yield,
+    return _window_verdict(design, ev, rs, "duty.range", title, nominal, "points", "duty", pct, want_lo, want_hi,
+                           "over the corners it moves",
                            "Use tighter-tolerance resistors or a steered topology with matched paths.")
 
 
@@ -346,16 +371,8 @@ def frequency_target(design: Any, ev: Any) -> Any:
                        "widen the window.", "common-practice")
     nominal = f"Nominal {fmt(f0, 'Hz', 4)} ({100 * rel:+.3g} %) is inside the required {window}"
     rs = ev.requirement_spread
-    if rs is None:
-        return _not_run(design, ev, "frequency.target", title, nominal)
-    band = f"the corners span {fmt(rs.frequency_low, 'Hz', 4)} … {fmt(rs.frequency_high, 'Hz', 4)}"
-    bad = []
-    if rs.frequency_low < lo_req:
-        bad.append(f"lowest {fmt(rs.frequency_low, 'Hz', 4)} at {rs.frequency_low_at}")
-    if rs.frequency_high > hi_req:
-        bad.append(f"highest {fmt(rs.frequency_high, 'Hz', 4)} at {rs.frequency_high_at}")
-    return _spread_verdict(design, ev, "frequency.target", title, nominal, "Hz", rs.frequency_inside(), band,
-                           " and ".join(bad) or "every corner stays inside", rs.frequency_yield,
+    return _window_verdict(design, ev, rs, "frequency.target", title, nominal, "Hz", "frequency",
+                           lambda v: fmt(v, "Hz", 4), lo_req, hi_req, "the corners span",
                            "Use tighter-tolerance parts (C0G capacitor, 1 % resistors, a tighter pot), a narrower "
                            "supply or ambient range, or widen the window.")
 

@@ -136,7 +136,7 @@ def duty_range_two_timer(design: Any, ev: Any, title: str) -> Any:
     builds that do both must reach ``min_yield``. Not run in quick mode. Origin: the design's own
     requirement; criteria common practice.
     """
-    from .timing_rules import _not_run, _spread_verdict
+    from .timing_rules import _duty_reach_verdict
 
     req = design.requirements
     tt = _part(ev)
@@ -155,14 +155,5 @@ def duty_range_two_timer(design: Any, ev: Any, title: str) -> Any:
                        "common-practice")
     nominal = f"The control range gives {pct(lo)} … {pct(hi)} duty at the nominal values (required {window})"
     rs = getattr(ev, "requirement_spread", None)
-    if rs is None:
-        return _not_run(design, ev, "duty.range", title, nominal)
-    band = f"over the corners the range reaches only {pct(rs.duty_low)} … {pct(rs.duty_high)}"
-    bad = []
-    if rs.duty_low > want_lo + 1e-12:
-        bad.append(f"the bottom end stops at {pct(rs.duty_low)} at {rs.duty_low_at}")
-    if rs.duty_high < want_hi - 1e-12:
-        bad.append(f"the top end stops at {pct(rs.duty_high)} at {rs.duty_high_at}")
-    return _spread_verdict(design, ev, "duty.range", title, nominal, "points", rs.duty_inside(), band,
-                           " and ".join(bad) or "every corner reaches it", rs.duty_yield,
-                           "Widen the control range beyond the required duty, or use tighter monostable parts.")
+    return _duty_reach_verdict(design, ev, rs, title, nominal, want_lo, want_hi, "range",
+                               "Widen the control range beyond the required duty, or use tighter monostable parts.")

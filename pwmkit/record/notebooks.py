@@ -76,6 +76,26 @@ class CopyAction:
     action: str
 
 
+def _copy_each(files: list[Path], out: Path, force: bool) -> list[CopyAction]:
+    """Copy each file into ``out`` unless an edited copy is there (replaced only with ``force``)."""
+    actions: list[CopyAction] = []
+    for f in files:
+        target = out / f.name
+        if target.is_symlink() or (target.exists() and not target.is_file()):
+            raise DesignError(f"{target}: is not a regular file; move it away first")
+        if not target.exists():
+            atomic_write(target, f.read_bytes())
+            actions.append(CopyAction(f.name, target, "copied"))
+        elif filecmp.cmp(f, target, shallow=False):
+            actions.append(CopyAction(f.name, target, "unchanged"))
+        elif force:
+            atomic_write(target, f.read_bytes(), force=True)
+            actions.append(CopyAction(f.name, target, "replaced"))
+        else:
+            actions.append(CopyAction(f.name, target, "kept"))
+    return actions
+
+
 def copy_notebooks(dest: str | os.PathLike[str], *, force: bool = False,
                    source: str | os.PathLike[str] | None = None) -> list[CopyAction]:
     """Copy the packaged notebooks into a working folder without clobbering edited copies.
@@ -98,21 +118,7 @@ def copy_notebooks(dest: str | os.PathLike[str], *, force: bool = False,
     if out.exists() and not out.is_dir():
         raise DesignError(f"{out}: exists and is not a folder; choose another working folder")
     out.mkdir(parents=True, exist_ok=True)
-    actions = []
-    for nb in sorted(src.glob("*.ipynb")):
-        target = out / nb.name
-        if target.is_symlink() or (target.exists() and not target.is_file()):
-            raise DesignError(f"{target}: is not a regular file; move it away first")
-        if not target.exists():
-            atomic_write(target, nb.read_bytes())
-            actions.append(CopyAction(nb.name, target, "copied"))
-        elif filecmp.cmp(nb, target, shallow=False):
-            actions.append(CopyAction(nb.name, target, "unchanged"))
-        elif force:
-            atomic_write(target, nb.read_bytes(), force=True)
-            actions.append(CopyAction(nb.name, target, "replaced"))
-        else:
-            actions.append(CopyAction(nb.name, target, "kept"))
+    actions = _copy_each(sorted(src.glob("*.ipynb")), out, force)
     if not actions:
         raise DesignError(f"{src}: holds no notebooks")
     return actions
@@ -139,21 +145,7 @@ def copy_examples(dest: str | os.PathLike[str], *, force: bool = False,
     if src is None:
         return actions
     out.mkdir(parents=True, exist_ok=True)
-    for f in sorted(src.glob("*.toml")):
-        target = out / f.name
-        if target.is_symlink() or (target.exists() and not target.is_file()):
-            raise DesignError(f"{target}: is not a regular file; move it away first")
-        if not target.exists():
-            atomic_write(target, f.read_bytes())
-            actions.append(CopyAction(f.name, target, "copied"))
-        elif filecmp.cmp(f, target, shallow=False):
-            actions.append(CopyAction(f.name, target, "unchanged"))
-        elif force:
-            atomic_write(target, f.read_bytes(), force=True)
-            actions.append(CopyAction(f.name, target, "replaced"))
-        else:
-            actions.append(CopyAction(f.name, target, "kept"))
-    return actions
+    return _copy_each(sorted(src.glob("*.toml")), out, force)
 
 
 def find_design_file(name: str, folder: str | os.PathLike[str] | None = None) -> Path:

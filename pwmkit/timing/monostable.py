@@ -177,9 +177,15 @@ def _monostable_inputs(r: Any, c: Any, vcc: Any, vctl: Any, vsat: Any, timer: An
     q["vcc"] = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
     q["vctl"] = 2.0 * q["vcc"] / 3.0 if vctl is None else quantity(vctl, "vctl", unit="V", minimum=0.0,
                                                                   min_inclusive=False)
-    q["v_start"] = (start_level(q["r"], q["vcc"], fam) if vsat is None
-                    else quantity(vsat, "vsat", unit="V", minimum=0.0))
+    q["v_start"] = _start_or_given(vsat, q["r"], q["vcc"], fam)
     return q
+
+
+def _start_or_given(vsat: Any, r: Any, vcc: Any, fam: TimerFamily) -> Any:
+    """The capacitor's start level: ``vsat`` when given (checked, ≥ 0), else :func:`start_level` [V]."""
+    if vsat is None:
+        return start_level(r, vcc, fam)
+    return quantity(vsat, "vsat", unit="V", minimum=0.0)
 
 
 def _first(mask: Any, *arrays: Any) -> list[float]:
@@ -188,20 +194,32 @@ def _first(mask: Any, *arrays: Any) -> list[float]:
     return [float(np.broadcast_to(a, shape).ravel()[idx]) for a in arrays]
 
 
+def _check_threshold(vctl: Any, vcc: Any, v_start: Any, above_supply: str, below_start: str) -> None:
+    """Raise a DesignError unless the upper threshold ``vctl`` lies above ``v_start`` and below ``vcc``.
+
+    The capacitor charges from its start level toward the supply, so a pulse ends only for a
+    threshold strictly between the two. ``above_supply`` and ``below_start`` are the messages,
+    with ``{v}`` the first offending ``vctl`` and ``{s}`` the supply or start level there [V].
+    """
+    bad = np.logical_not(np.asarray(vctl) < np.asarray(vcc))
+    if np.any(bad):
+        v, s = _first(bad, vctl, vcc)
+        raise DesignError(above_supply.format(v=v, s=s))
+    bad = np.logical_not(np.asarray(vctl) > np.asarray(v_start))
+    if np.any(bad):
+        v, s = _first(bad, vctl, v_start)
+        raise DesignError(below_start.format(v=v, s=s))
+
+
 def _monostable_core(q: dict[str, Any]) -> MonostableResult:
     from ._derived import monostable_width
 
     vcc, vctl, vs = q["vcc"], q["vctl"], q["v_start"]
-    bad = np.logical_not(np.asarray(vctl) < np.asarray(vcc))
-    if np.any(bad):
-        v, s = _first(bad, vctl, vcc)
-        raise DesignError(f"vctl: {v:.4g} V cannot be reached: the capacitor charges toward the supply "
-                          f"{s:.4g} V and never gets there, so the output stays high; allowed vctl < vcc")
-    bad = np.logical_not(np.asarray(vctl) > np.asarray(vs))
-    if np.any(bad):
-        v, s = _first(bad, vctl, vs)
-        raise DesignError(f"vctl: {v:.4g} V is not above the capacitor's start level {s:.4g} V, so there is "
-                          "no timed pulse; raise vctl")
+    _check_threshold(vctl, vcc, vs,
+                     "vctl: {v:.4g} V cannot be reached: the capacitor charges toward the supply {s:.4g} V and "
+                     "never gets there, so the output stays high; allowed vctl < vcc",
+                     "vctl: {v:.4g} V is not above the capacitor's start level {s:.4g} V, so there is no timed "
+                     "pulse; raise vctl")
     with np.errstate(all="ignore"):
         (width,) = monostable_width(q["r"], q["c"], vcc, vctl, vs)
         width = np.asarray(width, dtype=float)

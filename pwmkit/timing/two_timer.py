@@ -38,7 +38,7 @@ import numpy as np
 from .._validate import quantity
 from ..errors import DesignError
 from ..parts.timers import TimerFamily, get_timer
-from .monostable import _first, _out, discharge_resistance, start_level
+from .monostable import _check_threshold, _first, _out, _start_or_given, discharge_resistance, start_level
 
 __all__ = ["TwoTimerPwm", "two_timer_pwm", "ControlRange", "control_range", "RECOVERY_FRACTION"]
 
@@ -126,8 +126,7 @@ def _inputs(ra: Any, rb: Any, c: Any, r_mono: Any, c_mono: Any, vcc: Any, vctl: 
     q["c_mono"] = quantity(c_mono, "c_mono", unit="F", minimum=0.0, min_inclusive=False)
     q["vcc"] = quantity(vcc, "vcc", unit="V", minimum=0.0, min_inclusive=False)
     q["vctl"] = quantity(vctl, "vctl", unit="V", minimum=0.0, min_inclusive=False)
-    q["v_rest"] = (start_level(q["r_mono"], q["vcc"], fam) if vsat is None
-                   else quantity(vsat, "vsat", unit="V", minimum=0.0))
+    q["v_rest"] = _start_or_given(vsat, q["r_mono"], q["vcc"], fam)
     q["_vsat_fixed"] = vsat is not None
     return q
 
@@ -189,15 +188,10 @@ def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
     r, cm = q["r_mono"], q["c_mono"]
     rc = np.asarray(r) * cm
     period, t_trig = np.asarray(clk.period), np.asarray(clk.t_low)
-    bad = np.logical_not(np.asarray(vctl) < np.asarray(vcc))
-    if np.any(bad):
-        v, s = _first(bad, vctl, vcc)
-        raise DesignError(f"vctl: {v:.4g} V cannot be reached: the monostable capacitor charges toward the supply "
-                          f"{s:.4g} V and never gets there; allowed vctl < vcc")
-    bad = np.logical_not(np.asarray(vctl) > np.asarray(v_rest))
-    if np.any(bad):
-        v, s = _first(bad, vctl, v_rest)
-        raise DesignError(f"vctl: {v:.4g} V is not above the monostable's start level {s:.4g} V; raise vctl")
+    _check_threshold(vctl, vcc, v_rest,
+                     "vctl: {v:.4g} V cannot be reached: the monostable capacitor charges toward the supply "
+                     "{s:.4g} V and never gets there; allowed vctl < vcc",
+                     "vctl: {v:.4g} V is not above the monostable's start level {s:.4g} V; raise vctl")
     r_dis = discharge_resistance(q["timer"])
     tau_d = np.asarray(r) * r_dis / (np.asarray(r) + r_dis) * cm
     t_rec = tau_d * math.log(1.0 / RECOVERY_FRACTION)

@@ -8,9 +8,8 @@ positions and duties reached the pot-travel plot's data (read through ``Bokeh.in
 
 from __future__ import annotations
 
-import re
-
 import pytest
+from lab_page import open_notebook, run_all
 
 pytestmark = pytest.mark.browser
 
@@ -48,41 +47,16 @@ def _write_notebook(root) -> None:
     nbformat.write(nb, str(root / NOTEBOOK))
 
 
-def _accept_dialog(page) -> None:
-    dialog = page.locator(".jp-Dialog .jp-mod-accept")
-    if dialog.count():
-        dialog.first.click()
-
-
-def _run_all(page) -> None:
-    for _attempt in range(3):
-        page.locator(".lm-MenuBar-itemLabel", has_text="Run").first.click()
-        page.locator(".lm-Menu-itemLabel", has_text="Run All Cells").first.click()
-        _accept_dialog(page)
-        started = page.locator(".jp-InputPrompt", has_text=re.compile(r"\[(\*|\d+)\]"))
-        try:
-            started.first.wait_for(state="attached", timeout=15_000)
-            return
-        except Exception:  # noqa: BLE001 - playwright's TimeoutError; try again
-            page.wait_for_timeout(2000)
-    raise AssertionError("Run All Cells did not start any cell")
-
-
 def test_as_built_panel_renders_the_readings(lab, page, artifacts):
     from playwright.sync_api import expect
 
     _write_notebook(lab.root)
-    page.goto(lab.page_url(NOTEBOOK))
-    page.wait_for_selector(".jp-Notebook", timeout=90_000)
-    page.wait_for_timeout(1000)
-    _accept_dialog(page)
-    page.wait_for_selector(".jp-Notebook-ExecutionIndicator[data-status='idle']", timeout=90_000)
-    page.locator(".jp-StatusBar-TextItem", has_text="| Idle").first.wait_for(timeout=60_000)
+    open_notebook(page, lab.page_url(NOTEBOOK))
     marker = page.locator(".jp-OutputArea-output", has_text="PWMKIT-AS-BUILT-OK")
     error = page.locator(".jp-OutputArea-output[data-mime-type='application/vnd.jupyter.stderr']")
     panel = page.locator(".pwmkit-as-built").first
     for _attempt in range(2):
-        _run_all(page)
+        run_all(page)
         marker.or_(error).first.wait_for(state="attached", timeout=180_000)
         try:  # a kernel that answers before the page's widget manager is ready leaves "model not found"
             panel.wait_for(state="attached", timeout=20_000)

@@ -10,9 +10,9 @@ Screenshots go to test-artifacts/.
 from __future__ import annotations
 
 import os
-import re
 
 import pytest
+from lab_page import open_notebook, run_all
 
 pytestmark = pytest.mark.browser
 
@@ -102,27 +102,6 @@ def _legs(log: list, start: float, t_readout: float, t_plot: float) -> tuple[flo
     return sent[0] - start, replies[0] - sent[0], replies[-1] - replies[0], t_plot + start - replies[-1]
 
 
-def _run_all(page) -> None:
-    """Run ▸ Run All Cells; repeated once if no cell started (a kernel still connecting drops it)."""
-    for _attempt in range(3):
-        page.locator(".lm-MenuBar-itemLabel", has_text="Run").first.click()
-        page.locator(".lm-Menu-itemLabel", has_text="Run All Cells").first.click()
-        _accept_dialog(page)
-        started = page.locator(".jp-InputPrompt", has_text=re.compile(r"\[(\*|\d+)\]"))
-        try:
-            started.first.wait_for(state="attached", timeout=15_000)
-            return
-        except Exception:  # noqa: BLE001 - playwright's TimeoutError; try again
-            page.wait_for_timeout(2000)
-    raise AssertionError("Run All Cells did not start any cell")
-
-
-def _accept_dialog(page) -> None:
-    dialog = page.locator(".jp-Dialog .jp-mod-accept")
-    if dialog.count():
-        dialog.first.click()
-
-
 @pytest.fixture
 def shot_on_failure(page, artifacts, request):
     """Save a screenshot of the page when the test fails (for the CI artefacts)."""
@@ -136,13 +115,8 @@ def test_greenhouse_dashboard_follows_slider_and_text(lab, page, artifacts, shot
     from playwright.sync_api import expect
 
     page.add_init_script(WS_TRACE)
-    page.goto(lab.page_url(NOTEBOOK))
-    page.wait_for_selector(".jp-Notebook", timeout=90_000)
-    page.wait_for_timeout(1000)
-    _accept_dialog(page)
-    page.wait_for_selector(".jp-Notebook-ExecutionIndicator[data-status='idle']", timeout=90_000)
-    page.locator(".jp-StatusBar-TextItem", has_text="| Idle").first.wait_for(timeout=60_000)
-    _run_all(page)
+    open_notebook(page, lab.page_url(NOTEBOOK))
+    run_all(page)
     # the marker printed by the last cell (not the same text in its source code), or an error
     marker = page.locator(".jp-OutputArea-output", has_text="PWMKIT-NOTEBOOK-OK")
     error = page.locator(".jp-OutputArea-output[data-mime-type='application/vnd.jupyter.stderr']")
