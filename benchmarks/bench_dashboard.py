@@ -63,13 +63,15 @@ async def bench_design(name: str, design, ticks: int = 40) -> None:  # noqa: ANN
              for w in [0.3 + 0.005 * k for k in range(ticks)]]
     _row("evaluate(spread=False) alone", evals)
 
-    # slider ticks on the wiper
+    # slider ticks on the wiper (the slider reads percent of the travel, step 0.5 %)
     base = tp.wiper.value
     wiper = []
+    revision = dash.session.revision
     for k in range(ticks):
-        value = round(base + (0.005 if k % 2 == 0 else -0.005) * (1 + k % 3), 4)
+        value = round(base + (0.5 if k % 2 == 0 else -0.5) * (1 + k % 3), 4)
         wiper.append(_time(lambda v=value: setattr(tp.wiper, "value", v)))
     assert not tp.message_text, tp.message_text
+    assert dash.session.revision - revision == ticks, "a wiper tick did not change the design"
     _row("slider tick (wiper)", wiper)
 
     # slider ticks on the ra log slider

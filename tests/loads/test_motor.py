@@ -151,6 +151,18 @@ def test_stable_helpers_match_high_precision_sympy():
         for xv, g in zip(points, got):
             ref = float(expr.subs(x, sp.Float(xv, 40)).evalf(40))
             assert g == pytest.approx(ref, rel=2e-14), (fun.__name__, xv)
+            assert float(fun(xv)) == g, (fun.__name__, xv)  # a scalar takes the same value as an array element
+
+
+def test_series_is_numpys_horner_to_the_bit():
+    # the scalar fast path and the array path of the short series equal np.polyval exactly
+    from pwmkit.loads import motor as mod
+
+    xs = np.random.default_rng(7).uniform(0.0, 0.1, 400)
+    for coeffs in (mod._PSI_C, mod._H_C, mod._M2_C):
+        ref = np.polyval(coeffs[::-1], xs)
+        assert np.array_equal(mod._series(xs, coeffs), ref)
+        assert all(float(mod._series(v, coeffs)) == r for v, r in zip(xs, ref))
 
 
 def test_ccm_worked_values_references_6_2():
