@@ -207,13 +207,14 @@ def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
                           f"(clock {f:.4g} Hz), so the output skips cycles; keep vctl below about {vmax:.4g} V "
                           "or lengthen the clock period")
     v0 = np.asarray(v_rest, dtype=float)
+    atol = 1e-15 * float(np.max(vcc))
     with np.errstate(all="ignore"):
         for _ in range(_FIXED_POINT_STEPS):
             w = np.log((vcc - v0) / (vcc - vctl)) * rc
             t_high = np.maximum(w, t_trig)
             v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
             v0_new = v_rest + (v_peak - v_rest) * np.exp(-np.maximum(period - t_high, 0.0) / tau_d)
-            done = np.allclose(v0_new, v0, rtol=0.0, atol=1e-15 * float(np.max(vcc)))
+            done = bool(np.all(np.abs(v0_new - v0) <= atol))  # np.allclose(rtol=0) without its overhead
             v0 = v0_new
             if done:
                 break
@@ -331,6 +332,7 @@ def control_range(*, vctl_low: Any, vctl_high: Any, points: int = _LINEARITY_POI
     for name in ("ra", "rb", "c", "r_mono", "c_mono", "vcc"):
         if np.ndim(q[name]) != 0:
             raise DesignError(f"{name}: control_range takes one circuit; give a single value")
+    q["_clock"] = _clock(q)  # one clock for every evaluation at this supply (the supply steps below drop it)
     res = _two_timer_core(q)
     duty = np.asarray(res.duty)
     slope = (duty[-1] - duty[0]) / (hi - lo)
@@ -346,10 +348,10 @@ def control_range(*, vctl_low: Any, vctl_high: Any, points: int = _LINEARITY_POI
                 err, v_worst = float(abs(d)), v_star
     mid = 0.5 * (lo + hi)
     dv = 0.01
-    d_fixed = [float(_two_timer_core(dict(q, vctl=mid, vcc=q["vcc"] + s,
+    d_fixed = [float(_two_timer_core(dict(q, vctl=mid, vcc=q["vcc"] + s, _clock=None,
                                           v_rest=_rest(q, q["vcc"] + s))).duty) for s in (-dv, dv)]
     ratio = mid / q["vcc"]
-    d_ratio = [float(_two_timer_core(dict(q, vctl=ratio * (q["vcc"] + s), vcc=q["vcc"] + s,
+    d_ratio = [float(_two_timer_core(dict(q, vctl=ratio * (q["vcc"] + s), vcc=q["vcc"] + s, _clock=None,
                                           v_rest=_rest(q, q["vcc"] + s))).duty) for s in (-dv, dv)]
     return ControlRange(
         vctl=grid, duty=duty, vctl_low=lo, vctl_high=hi, duty_low=float(duty[0]), duty_high=float(duty[-1]),
