@@ -72,11 +72,18 @@ def _series(x: np.ndarray, coeffs: tuple[float, ...]) -> np.ndarray:
     floats, which is about ten times faster than numpy's per-call overhead.
     """
     if np.ndim(x) == 0:
-        xv, acc = float(x), float(coeffs[-1])
-        for c in coeffs[-2::-1]:
-            acc = acc * xv + c
-        return np.float64(acc)
+        return np.float64(_horner(float(x), coeffs))
+    if np.size(x) <= 8:  # a few supply or tolerance corners: plain floats too
+        xs = np.asarray(x, dtype=float)
+        return np.array([_horner(v, coeffs) for v in xs.ravel().tolist()]).reshape(xs.shape)
     acc = np.full(np.shape(x), float(coeffs[-1]))
+    for c in coeffs[-2::-1]:
+        acc = acc * x + c
+    return acc
+
+
+def _horner(x: float, coeffs: tuple[float, ...]) -> float:
+    acc = float(coeffs[-1])
     for c in coeffs[-2::-1]:
         acc = acc * x + c
     return acc

@@ -163,6 +163,8 @@ def test_series_is_numpys_horner_to_the_bit():
         ref = np.polyval(coeffs[::-1], xs)
         assert np.array_equal(mod._series(xs, coeffs), ref)
         assert all(float(mod._series(v, coeffs)) == r for v, r in zip(xs, ref))
+        for n in (1, 2, 8, 9):  # the small-array path and the numpy path around its limit
+            assert np.array_equal(mod._series(xs[:n].reshape(n, 1), coeffs), ref[:n].reshape(n, 1))
 
 
 def test_ccm_worked_values_references_6_2():
