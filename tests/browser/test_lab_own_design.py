@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import nbformat
 import pytest
-from test_lab_dashboard import _accept_dialog, _run_all  # same folder (pytest puts it on sys.path)
+from lab_page import accept_dialog as _accept_dialog  # same folder (pytest puts it on sys.path)
+from lab_page import run_all as _run_all
 
 from pwmkit.design import demo_designs
 from pwmkit.record import load_design, save_design

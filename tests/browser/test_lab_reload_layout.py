@@ -27,7 +27,9 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from test_lab_dashboard import READ_SOURCE, _accept_dialog, _run_all  # noqa: I001 - sibling test module
+from lab_page import accept_dialog as _accept_dialog  # noqa: I001 - sibling modules
+from lab_page import run_all as _run_all
+from test_lab_dashboard import READ_SOURCE
 
 pytestmark = pytest.mark.browser
 
