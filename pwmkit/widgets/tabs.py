@@ -172,7 +172,6 @@ def _bokeh_model_class() -> type:
 
 
 _LIVE: type | None = None
-_DATA_EVENTS = ("ModelChanged", "ColumnsPatched", "ColumnsStreamed", "ColumnDataChanged")
 
 
 def _live_class() -> type:
@@ -192,20 +191,6 @@ def _live_class() -> type:
             def _document_patched(self, event: Any) -> None:
                 self._plot_changed = True  # any change, also one a view made (zoom): the next full state has it
                 super()._document_patched(event)
-
-            def _sync_model(self, model: Any, content: dict[str, Any], buffers: list[Any]) -> None:
-                # jupyter_bokeh's front end sends back every change it applied from the kernel,
-                # whole ColumnDataSource data included (gzip-compressed, base64). Only the kernel
-                # ever sets the data of these plots (they have no editing tools), so an echo of it
-                # is dropped before it is decoded; view changes (ranges, tool events) go through.
-                if (isinstance(content, dict) and content.get("event") == "jsevent"
-                        and content.get("kind") in _DATA_EVENTS and content.get("attr", "data") == "data"):
-                    self.echoes_dropped += 1
-                    return
-                super()._sync_model(model, content, buffers)
-
-            #: how many data echoes from the front end were dropped undecoded (see _sync_model)
-            echoes_dropped = 0
 
             def update_from_model(self, model: Any) -> None:
                 super().update_from_model(model)

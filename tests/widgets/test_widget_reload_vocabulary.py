@@ -118,20 +118,3 @@ def _walk(widget):
         yield x
         stack.extend(getattr(x, "children", ()) or ())
 
-
-def test_data_echoes_from_the_front_end_are_dropped_and_view_changes_applied(grow):
-    # jupyter_bokeh's front end sends back each change it applied from the kernel (seen in a
-    # websocket trace: the whole waveform data, gzip + base64, after every slider step)
-    panel = WaveformPanel(grow)
-    plot = panel.bokeh
-    source = panel.plot.source
-    before = {k: np.asarray(v).copy() for k, v in source.data.items()}
-    echo = {"event": "jsevent", "kind": "ModelChanged", "model": {"id": source.id}, "attr": "data",
-            "new": {"type": "map", "entries": [["t", [0.0, 1.0]]]}}
-    plot._sync_model(plot, echo, [])
-    assert plot.echoes_dropped == 1
-    assert all(np.array_equal(np.asarray(source.data[k]), v) for k, v in before.items())
-    x_range = panel.plot.top.x_range
-    view = {"event": "jsevent", "kind": "ModelChanged", "model": {"id": x_range.id}, "attr": "start", "new": -5.0}
-    plot._sync_model(plot, view, [])
-    assert x_range.start == -5.0 and plot.echoes_dropped == 1  # a view change (zoom, auto-range) is kept
