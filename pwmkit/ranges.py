@@ -117,7 +117,7 @@ def checked(value: Any, name: str, key: str | None = None) -> Any:
     from ._validate import quantity
 
     r = RANGES[key or name.rsplit(".", 1)[-1]]
-    return quantity(value, name, unit=r.unit, allowed=_allowed_text(r, name), **_limits(r))
+    return quantity(value, name, unit=r.unit, allowed=_allowed_text(r, name), **r.limits())
 
 
 @functools.lru_cache(maxsize=512)
@@ -125,11 +125,3 @@ def _allowed_text(r: Range, name: str) -> str:
     # formatted once per (range, field): every model call checks its inputs
     return r.text(name)
 
-
-@functools.lru_cache(maxsize=128)
-def _limits_items(r: Range) -> tuple[tuple[str, Any], ...]:
-    return tuple(r.limits().items())
-
-
-def _limits(r: Range) -> dict[str, Any]:
-    return dict(_limits_items(r))

@@ -61,6 +61,24 @@ def _check_headless_result(out: subprocess.CompletedProcess[str], work: Path) ->
     assert "key results of" in out.stdout and "timing.frequency" in out.stdout
 
 
+def _need_debian_venv() -> None:
+    probe = subprocess.run([str(DEBIAN_PYTHON), "-c", "import ensurepip, venv"], capture_output=True)
+    if probe.returncode != 0:
+        pytest.skip("Debian's python3-venv is not installed (.ci/run installs it)")
+
+
+def _working_tree_clone(clone: Path) -> Path:
+    """A git clone of the repository holding the working tree under test, not only its last commit."""
+    subprocess.run(["git", "clone", "-q", "--no-hardlinks", str(REPO), str(clone)], check=True)
+    tracked = subprocess.run(["git", "ls-files", "-z"], cwd=REPO, capture_output=True, check=True).stdout
+    for name in filter(None, tracked.decode().split("\0")):
+        src = REPO / name
+        if src.is_file():
+            (clone / name).parent.mkdir(parents=True, exist_ok=True)
+            shutil.copy2(src, clone / name)
+    return clone
+
+
 def test_readme_has_two_commands_and_the_first_makes_its_own_venv() -> None:
     cmd = readme_setup_command()
     assert "-m venv" in cmd and "pwmkit lab" in cmd
@@ -70,18 +88,8 @@ def test_readme_has_two_commands_and_the_first_makes_its_own_venv() -> None:
 @pytest.mark.slow
 @pytest.mark.skipif(not DEBIAN_PYTHON.is_file() or shutil.which("git") is None, reason="needs /usr/bin/python3, git")
 def test_readme_setup_command_works_in_a_fresh_clone_with_debians_python(tmp_path: Path) -> None:
-    probe = subprocess.run([str(DEBIAN_PYTHON), "-c", "import ensurepip, venv"], capture_output=True)
-    if probe.returncode != 0:
-        pytest.skip("Debian's python3-venv is not installed (.ci/run installs it)")
-    clone = tmp_path / "clone"
-    subprocess.run(["git", "clone", "-q", "--no-hardlinks", str(REPO), str(clone)], check=True)
-    # the working tree under test, not only its last commit
-    tracked = subprocess.run(["git", "ls-files", "-z"], cwd=REPO, capture_output=True, check=True).stdout
-    for name in filter(None, tracked.decode().split("\0")):
-        src = REPO / name
-        if src.is_file():
-            (clone / name).parent.mkdir(parents=True, exist_ok=True)
-            shutil.copy2(src, clone / name)
+    _need_debian_venv()
+    clone = _working_tree_clone(tmp_path / "clone")
     cmd = readme_setup_command()
     env = _headless_env(tmp_path)
     assert shutil.which("python3", path=env["PATH"]) == str(DEBIAN_PYTHON)
@@ -99,22 +107,13 @@ def test_readme_setup_command_works_as_a_normal_user(tmp_path: Path) -> None:
     """The same command run by an unprivileged account (setpriv drops root to "nobody")."""
     if os.geteuid() != 0:
         pytest.skip("already a normal user: test_readme_setup_command_works_in_a_fresh_clone… is this case")
-    probe = subprocess.run([str(DEBIAN_PYTHON), "-c", "import ensurepip, venv"], capture_output=True)
-    if probe.returncode != 0:
-        pytest.skip("Debian's python3-venv is not installed (.ci/run installs it)")
+    _need_debian_venv()
     import tempfile
 
     # pytest's tmp_path is private to root: the account gets a folder of its own under /tmp
     top = Path(tempfile.mkdtemp(prefix="pwmkit-user-", dir="/tmp"))
     try:
-        clone = top / "clone"
-        subprocess.run(["git", "clone", "-q", "--no-hardlinks", str(REPO), str(clone)], check=True)
-        tracked = subprocess.run(["git", "ls-files", "-z"], cwd=REPO, capture_output=True, check=True).stdout
-        for name in filter(None, tracked.decode().split("\0")):
-            src = REPO / name
-            if src.is_file():
-                (clone / name).parent.mkdir(parents=True, exist_ok=True)
-                shutil.copy2(src, clone / name)
+        clone = _working_tree_clone(top / "clone")
         env = _headless_env(top)
         # the account cannot read root's pip configuration or cache: a copy of the configuration,
         # a cache of its own
