@@ -543,6 +543,18 @@ class SteadySpeed:
         return result_html(self, _SS_UNITS, "motor steady state")
 
 
+def _ccm_speed(params: MotorParams, v: np.ndarray, d: np.ndarray, vf: np.ndarray) -> np.ndarray:
+    """Speed [rad/s] where the torque balance holds if the current is continuous (NaN if it has no root).
+
+    ``K_t·(D·V - (1-D)·V_f - K_e·ω)/R = b·ω + drag·ω² + T_c + T_L`` solved for ``ω`` in the
+    cancellation-free form ``2C/(B + sqrt(B² + 4·drag·C))``.
+    """
+    b = params.b + params.kt * params.ke / params.r
+    c = params.kt * (d * v - (1.0 - d) * vf) / params.r - params.t_coulomb - params.t_load
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        return 2.0 * c / (b + np.sqrt(b * b + 4.0 * params.drag * c))
+
+
 def steady_speed(params: MotorParams, v: Any, duty: Any, f: Any, vf: Any = 0.0, *, iterations: int = 80) -> SteadySpeed:
     """Steady speed under PWM (CCM or DCM) by a bracketed root search on the torque balance.
 
@@ -592,22 +604,27 @@ def steady_speed(params: MotorParams, v: Any, duty: Any, f: Any, vf: Any = 0.0, 
     v_a, d_a, f_a, vf_a = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (v, duty, f, vf)))
     kt, ke, r, l = params.kt, params.ke, params.r, params.l  # noqa: E741
 
+    last: dict[str, np.ndarray] = {}
+
     def balance(w: np.ndarray) -> np.ndarray:
         with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
-            i = _chopper(v_a, ke * w, r, l, d_a, f_a, vf_a)["i_mean"]
-        return kt * i - params.load_torque(w)
+            last.update(_chopper(v_a, ke * w, r, l, d_a, f_a, vf_a))
+        return kt * last["i_mean"] - params.load_torque(w)
 
     lo, hi = np.zeros_like(v_a), v_a / ke
     f_lo, f_hi = balance(lo), balance(hi)
     stalled = f_lo <= 0.0
     # Bracketed root search on the (decreasing) torque balance: Illinois-modified regula falsi,
-    # which converges superlinearly (the balance is linear in speed in continuous conduction);
-    # a bisection step is taken whenever the secant point is unusable.
+    # which converges superlinearly; a bisection step is taken whenever the secant point is
+    # unusable. The first point is the continuous-conduction root, where the mean current
+    # (D·V - (1-D)·V_f - K_e·ω)/R is linear in speed and the balance a quadratic: where the motor
+    # runs in continuous conduction the search starts on the root and stops a step later.
+    guess = _ccm_speed(params, v_a, d_a, vf_a)
     x = np.full(v_a.shape, np.inf)
     side = np.zeros(v_a.shape, dtype=int)
-    for _ in range(int(iterations)):
+    for step in range(int(iterations)):
         with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
-            sec = hi - f_hi * (hi - lo) / (f_hi - f_lo)
+            sec = guess if step == 0 else hi - f_hi * (hi - lo) / (f_hi - f_lo)
         x_new = np.where(np.isfinite(sec) & (sec >= lo) & (sec <= hi), sec, 0.5 * (lo + hi))
         fx = balance(x_new)
         pos = fx > 0.0
@@ -622,8 +639,11 @@ def steady_speed(params: MotorParams, v: Any, duty: Any, f: Any, vf: Any = 0.0, 
             break
     omega = np.where(stalled, 0.0, x)
     e = ke * omega
-    with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
-        out = _chopper(v_a, e, r, l, d_a, f_a, vf_a)
+    if stalled.any():
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
+            out = _chopper(v_a, e, r, l, d_a, f_a, vf_a)
+    else:  # the last balance was taken at the root
+        out = last
     mc = _pack_current(out, scalar_out)
     i_mean = out["i_mean"]
     vals = {
