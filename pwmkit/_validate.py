@@ -99,18 +99,23 @@ def quantity(
             raise DesignError(f"{name}: {_describe(value)} is not a number or array of numbers ({exc})") from None
         if arr.ndim == 0:
             arr = float(arr)
-    a = np.asarray(arr)
-    # fast path: two reductions (min and max propagate NaN and show ±inf, so both finite means every
-    # element is finite); the element-wise masks are built only to report an error
-    lowest, highest = (float(a.min()), float(a.max())) if a.size else (0.0, 0.0)
+    if isinstance(arr, float):  # a scalar: no numpy round trip
+        lowest = highest = arr
+        size = 1
+    else:
+        a = np.asarray(arr)
+        size = a.size
+        # two reductions (min and max propagate NaN and show ±inf, so both finite means every
+        # element is finite); the element-wise masks are built only to report an error
+        lowest, highest = (float(a.min()), float(a.max())) if size else (0.0, 0.0)
     if not (math.isfinite(lowest) and math.isfinite(highest)):
-        first = float(a.ravel()[np.argmax(~np.isfinite(a).ravel())])
+        first = arr if isinstance(arr, float) else float(a.ravel()[np.argmax(~np.isfinite(a).ravel())])
         raise DesignError(f"{name}: {first!r} is not a finite number; give a finite value in {unit or 'SI units'}")
     u = f" {unit}" if unit else ""
-    if minimum is not None and a.size and (lowest < minimum or (not min_inclusive and lowest <= minimum)):
+    if minimum is not None and size and (lowest < minimum or (not min_inclusive and lowest <= minimum)):
         rel = ">=" if min_inclusive else ">"
         raise DesignError(f"{name}: {lowest:g}{u} is out of range; allowed {allowed or f'{name} {rel} {minimum:g}{u}'}")
-    if maximum is not None and a.size and (highest > maximum or (not max_inclusive and highest >= maximum)):
+    if maximum is not None and size and (highest > maximum or (not max_inclusive and highest >= maximum)):
         rel = "<=" if max_inclusive else "<"
         raise DesignError(f"{name}: {highest:g}{u} is out of range; allowed {allowed or f'{name} {rel} {maximum:g}{u}'}")
     return arr
