@@ -55,7 +55,7 @@ class PotTravelPlot:
         self._f_unit = ""
         self._f_factor = 1.0
         self._requirements: tuple[Any, Any] = (None, None)
-        from bokeh.models import BoxAnnotation
+        from bokeh.models import BoxAnnotation, LegendItem
 
         self.windows = {}
         self._legends = {}
@@ -69,7 +69,7 @@ class PotTravelPlot:
             proxy = fig.quad(left=[np.nan], right=[np.nan], bottom=[np.nan], top=[np.nan], fill_color=TRACE["window"], fill_alpha=0.3, line_color=TRACE["window"],
                                line_width=1.5)
             self._legends[key] = fig.legend[0]
-            self._window_items[key] = ("requirement window", [proxy])
+            self._window_items[key] = LegendItem(label="requirement window", renderers=[proxy])
         self.layout = row(duty, freq)
 
     def show_requirements(self, frequency_window: Any = None, duty_range: Any = None) -> None:
@@ -78,22 +78,25 @@ class PotTravelPlot:
         The boxes are in the axes' units (duty in %, frequency in the prefixed unit of its axis) and
         are named in the legend while shown.
         """
-        from bokeh.models import LegendItem
-
         self._requirements = (frequency_window, duty_range)
         for key, window, scale in (("frequency", frequency_window, 1.0 / self._f_factor), ("duty", duty_range, 100.0)):
             box = self.windows[key]
             legend = self._legends[key]
-            label, renderers = self._window_items[key]
-            items = [item for item in legend.items if item.renderers != renderers]
+            entry = self._window_items[key]
+            shown = any(item is entry for item in legend.items)
             if window is None:
-                box.visible = False
+                if box.visible:
+                    box.visible = False
+                if shown:
+                    legend.items = [item for item in legend.items if item is not entry]
             else:
-                box.bottom, box.top = float(window[0]) * scale, float(window[1]) * scale
-                box.visible = True
-                items.append(LegendItem(label=label, renderers=renderers))
-            if len(items) != len(legend.items):
-                legend.items = items
+                bottom, top = float(window[0]) * scale, float(window[1]) * scale
+                if (box.bottom, box.top) != (bottom, top):  # a bokeh property set is a message to the page
+                    box.bottom, box.top = bottom, top
+                if not box.visible:
+                    box.visible = True
+                if not shown:
+                    legend.items = [*legend.items, entry]
 
     def update(self, travel: Any, timing: Any, wiper: float) -> None:
         """Show a :class:`pwmkit.evaluate.PotTravel` and mark the design's wiper and timing."""
