@@ -65,7 +65,7 @@ def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[f
     """(duty_of_vctl, vctl_of_t, duty_range, vctl_range) of a two-timer design with a thermistor divider."""
     from .loads.heater import KELVIN
     from .timing import control_pin_drive, two_timer_pwm
-    from .timing.two_timer import _clock, _inputs, _two_timer_core
+    from .timing.two_timer import _clock, _duty_only, _inputs
 
     t, h = design.timing, design.load
     vcc = design.vcc if vcc is None else vcc
@@ -86,7 +86,7 @@ def loop_chain(design: Any, vcc: float | None = None) -> tuple[Any, Any, tuple[f
     r25, beta, r_set = float(h.ntc_r25), float(h.ntc_beta), float(h.r_set)
 
     def duty_of_vctl(v: float) -> float:
-        return float(_two_timer_core(dict(q, vctl=min(max(v, v_lo * (1 + 1e-12)), v_hi * (1 - 1e-12)))).duty)
+        return _duty_only(q, min(max(v, v_lo * (1 + 1e-12)), v_hi * (1 - 1e-12)))
 
     def vctl_of_t(temp: float) -> float:
         # the thermistor divider (β model) against the internal divider: as thermistor_source and

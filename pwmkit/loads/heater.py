@@ -210,9 +210,10 @@ def heater(*, r_cold: Any, alpha: Any, r_th: Any, c_th: Any, v_supply: Any, duty
     return _heater_core(q)
 
 
-def _heater_core(q: dict[str, Any]) -> HeaterResult:
-    r0, alpha, r_th, c_th, v = q["r0"], q["alpha"], q["r_th"], q["c_th"], np.asarray(q["v"])
-    duty, f, ta, rds, t0 = q["duty"], q["f"], q["ta"], q["rds"], q["t0"]
+def _steady(q: dict[str, Any], duty: Any) -> tuple[Any, Any, Any, Any, Any]:
+    """(β, steady rise y [K], hot resistance [Ω], element voltage [V], K [K]) at ``duty``."""
+    r0, alpha, r_th, v = q["r0"], q["alpha"], q["r_th"], np.asarray(q["v"])
+    ta, rds, t0 = q["ta"], q["rds"], q["t0"]
     beta = 1.0 + np.asarray(alpha) * (np.asarray(ta) - t0)
     if np.any(beta <= 0):
         raise DesignError("alpha: the element resistance is not positive at the ambient temperature; check alpha "
@@ -224,6 +225,13 @@ def _heater_core(q: dict[str, Any]) -> HeaterResult:
     k = np.asarray(r_th) * np.asarray(duty) * v_el**2 / r0
     y = steady_rise(k, alpha, beta)
     r_hot = r0 * (beta + np.asarray(alpha) * y)
+    return beta, y, r_hot, v_el, k
+
+
+def _heater_core(q: dict[str, Any]) -> HeaterResult:
+    r0, alpha, r_th, c_th, v = q["r0"], q["alpha"], q["r_th"], q["c_th"], np.asarray(q["v"])
+    duty, f, ta = q["duty"], q["f"], q["ta"]
+    beta, y, r_hot, v_el, k = _steady(q, duty)
     p_on = v_el**2 / r_hot
     tau = np.asarray(r_th) * c_th
     with np.errstate(all="ignore"):
@@ -428,7 +436,7 @@ def closed_loop(duty_of_vctl: Any, vctl_of_t: Any, *, r_cold: Any, alpha: Any, r
         return min(max(float(duty_of_vctl(v)), d_lo), d_hi), v, False
 
     def rise_at(d: float) -> float:
-        return float(_heater_core(dict(q, duty=d)).t_rise)
+        return float(_steady(q, d)[1])
 
     ta = float(q["ta"])
     t_full = ta + rise_at(1.0)

@@ -180,6 +180,45 @@ def _clock(q: dict[str, Any]) -> Any:
     return astable("classic", ra=q["ra"], rb=q["rb"], c=q["c"], vcc=q["vcc"], timer=q["clock_timer"])
 
 
+def _settle(vcc: Any, vctl: Any, v_rest: Any, rc: Any, tau_d: Any, t_trig: Any, period: Any) -> tuple[Any, Any, Any, Any]:
+    """The settled cycle by fixed-point iteration: (start voltage [V], width [s], high time [s], peak [V]).
+
+    Each period the monostable capacitor starts from what the discharge left of the last peak; the
+    width, high time and peak follow from that start (no error-state handling: callers set it).
+    """
+    v0 = np.asarray(v_rest, dtype=float)
+    atol = 1e-15 * float(np.max(vcc))
+    for _ in range(_FIXED_POINT_STEPS):
+        w = np.log((vcc - v0) / (vcc - vctl)) * rc
+        t_high = np.maximum(w, t_trig)
+        v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
+        v0_new = v_rest + (v_peak - v_rest) * np.exp(-np.maximum(period - t_high, 0.0) / tau_d)
+        done = bool(np.all(np.abs(v0_new - v0) <= atol))  # np.allclose(rtol=0) without its overhead
+        v0 = v0_new
+        if done:
+            break
+    w = np.log((vcc - v0) / (vcc - vctl)) * rc
+    t_high = np.maximum(w, t_trig)
+    v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
+    return v0, w, t_high, v_peak
+
+
+def _duty_only(q: dict[str, Any], vctl: float) -> float:
+    """Duty [1] of the settled cycle at one control voltage inside the working range, unchecked.
+
+    For inner loops (the heater's closed loop) that have checked the inputs and the range once:
+    the same fixed point as :func:`two_timer_pwm`, without the limits, the slope and the result object.
+    """
+    clk = q["_clock"] if q.get("_clock") is not None else _clock(q)
+    r, cm = float(q["r_mono"]), float(q["c_mono"])
+    r_dis = discharge_resistance(q["timer"])
+    period, t_trig = float(clk.period), float(clk.t_low)
+    with np.errstate(all="ignore"):
+        t_high = _settle(float(q["vcc"]), vctl, float(q["v_rest"]), r * cm, r * r_dis / (r + r_dis) * cm, t_trig,
+                         period)[2]
+    return float(t_high) / period
+
+
 def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
     from ._derived import monostable_width, two_timer_duty
 
@@ -206,21 +245,8 @@ def _two_timer_core(q: dict[str, Any]) -> TwoTimerPwm:
         raise DesignError(f"vctl: at {v:.4g} V the monostable pulse does not end before the next clock trigger "
                           f"(clock {f:.4g} Hz), so the output skips cycles; keep vctl below about {vmax:.4g} V "
                           "or lengthen the clock period")
-    v0 = np.asarray(v_rest, dtype=float)
-    atol = 1e-15 * float(np.max(vcc))
     with np.errstate(all="ignore"):
-        for _ in range(_FIXED_POINT_STEPS):
-            w = np.log((vcc - v0) / (vcc - vctl)) * rc
-            t_high = np.maximum(w, t_trig)
-            v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
-            v0_new = v_rest + (v_peak - v_rest) * np.exp(-np.maximum(period - t_high, 0.0) / tau_d)
-            done = bool(np.all(np.abs(v0_new - v0) <= atol))  # np.allclose(rtol=0) without its overhead
-            v0 = v0_new
-            if done:
-                break
-        w = np.log((vcc - v0) / (vcc - vctl)) * rc
-        t_high = np.maximum(w, t_trig)
-        v_peak = np.where(w >= t_trig, vctl, vcc - (vcc - v0) * np.exp(-t_trig / rc))
+        v0, w, t_high, v_peak = _settle(vcc, vctl, v_rest, rc, tau_d, t_trig, period)
         duty = t_high / period
         slope = np.asarray(two_timer_duty(r, cm, vcc, vctl, v_rest, period)[1], dtype=float)
     if not (np.all(np.isfinite(duty)) and np.all(np.isfinite(w))):

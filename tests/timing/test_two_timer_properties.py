@@ -60,3 +60,26 @@ def test_two_timer_vector_equals_scalar():
     arr = two_timer_pwm(vctl=v, **kw)
     for k, vk in enumerate(v):
         assert arr.duty[k] == pytest.approx(two_timer_pwm(vctl=float(vk), **kw).duty, rel=1e-12)
+
+
+@settings(max_examples=60, deadline=None)
+@given(ra=st.floats(1e3, 1e6), rb=st.floats(100.0, 1e6), rm=st.floats(1e3, 1e6), cm=st.floats(1e-9, 1e-5),
+       vcc=st.floats(4.5, 16.0), frac=st.floats(0.0, 1.0))
+def test_two_timer_duty_only_path_equals_the_full_result(ra, rb, rm, cm, vcc, frac):
+    """The heater loop's unchecked duty path gives the full model's duty inside the working range."""
+    from pwmkit.parts.timers import get_timer
+    from pwmkit.timing.two_timer import _clock, _duty_only, _inputs
+
+    kw = dict(ra=ra, rb=rb, c=100e-9, r_mono=rm, c_mono=cm, vcc=vcc)
+    try:
+        probe = two_timer_pwm(vctl=0.5 * vcc, **kw)
+    except DesignError:
+        return
+    v = probe.vctl_min + frac * (probe.vctl_max - probe.vctl_min)
+    try:
+        full = two_timer_pwm(vctl=v, **kw).duty
+    except DesignError:
+        return
+    q = _inputs(ra, rb, 100e-9, rm, cm, vcc, v, get_timer("bipolar"), None, None)
+    q["_clock"] = _clock(q)
+    assert _duty_only(q, v) == pytest.approx(full, rel=1e-14, abs=0.0)
