@@ -126,11 +126,14 @@ def _lam(y: np.ndarray) -> np.ndarray:
     return np.where(y > 0.0, np.log1p(safe) / safe, 1.0)
 
 
-def _segment(i0: np.ndarray, i1: np.ndarray, x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Mean and mean square of the exponential from ``i0`` to ``i1`` over ``x = t1/τ``."""
+def _segment(i0: np.ndarray, i1: np.ndarray, x: np.ndarray, mean_only: bool = False) -> tuple[np.ndarray, Any]:
+    """Mean and mean square of the exponential from ``i0`` to ``i1`` over ``x = t1/τ`` (None for
+    the mean square with ``mean_only``)."""
     d = i1 - i0
     h = _h(x)
     mean = i0 + d * h
+    if mean_only:
+        return mean, None
     msq = i0 * i0 + 2.0 * i0 * d * h + d * d * _m2(x)
     return mean, np.maximum(msq, 0.0)
 
@@ -138,8 +141,9 @@ def _segment(i0: np.ndarray, i1: np.ndarray, x: np.ndarray) -> tuple[np.ndarray,
 # ------------------------------------------------------------------------------------------------
 # steady-state chopper current (closed form)
 # ------------------------------------------------------------------------------------------------
-def _chopper(v, e, r, l, d, f, vf) -> dict[str, np.ndarray]:  # noqa: E741 - l is the trade symbol
-    """Core closed forms on broadcast float arrays (no validation)."""
+def _chopper(v, e, r, l, d, f, vf, mean_only=False) -> dict[str, np.ndarray]:  # noqa: E741 - l is the trade symbol
+    """Core closed forms on broadcast float arrays (no validation); only ``i_mean`` with ``mean_only``
+    (the speed search's inner evaluations)."""
     v, e, r, l, d, f, vf = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (v, e, r, l, d, f, vf)))
     lf = l * f
     z = r / lf
@@ -165,8 +169,8 @@ def _chopper(v, e, r, l, d, f, vf) -> dict[str, np.ndarray]:  # noqa: E741 - l i
     i_min_ccm = np.maximum(i_min_ccm, 0.0)
 
     # CCM segment integrals
-    on_mean, on_msq = _segment(i_min_ccm, i_max_ccm, x_on)
-    off_mean, off_msq = _segment(i_max_ccm, i_min_ccm, x_off)
+    on_mean, on_msq = _segment(i_min_ccm, i_max_ccm, x_on, mean_only)
+    off_mean, off_msq = _segment(i_max_ccm, i_min_ccm, x_off, mean_only)
 
     # DCM: start from zero, peak A_on·(1 - e^{-Dz}) written without 1/R
     i_pk = np.maximum((v - e) * d / lf * _phi(x_on), 0.0)
@@ -178,10 +182,12 @@ def _chopper(v, e, r, l, d, f, vf) -> dict[str, np.ndarray]:  # noqa: E741 - l i
                       * _lam(y), 0.0)
     frac_x = np.minimum(frac_x, 1.0 - d)
     x_x = frac_x * z
-    dcm_on_mean, dcm_on_msq = _segment(np.zeros_like(i_pk), i_pk, x_on)
-    dcm_d_mean, dcm_d_msq = _segment(i_pk, np.zeros_like(i_pk), x_x)
+    dcm_on_mean, dcm_on_msq = _segment(np.zeros_like(i_pk), i_pk, x_on, mean_only)
+    dcm_d_mean, dcm_d_msq = _segment(i_pk, np.zeros_like(i_pk), x_x, mean_only)
 
     sw_avg = np.where(continuous, d * on_mean, d * dcm_on_mean)
+    if mean_only:
+        return {"i_mean": sw_avg + np.where(continuous, (1.0 - d) * off_mean, frac_x * dcm_d_mean)}
     sw_msq = np.where(continuous, d * on_msq, d * dcm_on_msq)
     di_avg = np.where(continuous, (1.0 - d) * off_mean, frac_x * dcm_d_mean)
     di_msq = np.where(continuous, (1.0 - d) * off_msq, frac_x * dcm_d_msq)
@@ -604,12 +610,10 @@ def steady_speed(params: MotorParams, v: Any, duty: Any, f: Any, vf: Any = 0.0, 
     v_a, d_a, f_a, vf_a = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (v, duty, f, vf)))
     kt, ke, r, l = params.kt, params.ke, params.r, params.l  # noqa: E741
 
-    last: dict[str, np.ndarray] = {}
-
     def balance(w: np.ndarray) -> np.ndarray:
         with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
-            last.update(_chopper(v_a, ke * w, r, l, d_a, f_a, vf_a))
-        return kt * last["i_mean"] - params.load_torque(w)
+            i = _chopper(v_a, ke * w, r, l, d_a, f_a, vf_a, mean_only=True)["i_mean"]
+        return kt * i - params.load_torque(w)
 
     lo, hi = np.zeros_like(v_a), v_a / ke
     f_lo, f_hi = balance(lo), balance(hi)
@@ -639,11 +643,8 @@ def steady_speed(params: MotorParams, v: Any, duty: Any, f: Any, vf: Any = 0.0, 
             break
     omega = np.where(stalled, 0.0, x)
     e = ke * omega
-    if stalled.any():
-        with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
-            out = _chopper(v_a, e, r, l, d_a, f_a, vf_a)
-    else:  # the last balance was taken at the root
-        out = last
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
+        out = _chopper(v_a, e, r, l, d_a, f_a, vf_a)
     mc = _pack_current(out, scalar_out)
     i_mean = out["i_mean"]
     vals = {

@@ -649,3 +649,17 @@ def test_startup_guards():
         simulate_startup(FAN, 12.0, 0.5, 1e6, 10.0)
     with pytest.raises(DesignError, match="steps_per_segment: 0 is out of range"):
         simulate_startup(FAN, 12.0, 0.5, 1e3, 0.01, steps_per_segment=0)
+
+
+def test_mean_only_chopper_gives_the_full_forms_mean_to_the_bit():
+    """The speed search's mean-only path computes the same i_mean as the full closed forms (CCM and DCM)."""
+    from pwmkit.loads.motor import _chopper
+
+    rng = np.random.default_rng(7)
+    n = 400
+    v, r, l = rng.uniform(3, 48, n), rng.uniform(0.1, 20, n), 10 ** rng.uniform(-5, -2, n)  # noqa: E741
+    e, d = v * rng.uniform(0, 1.1, n), rng.uniform(0, 1, n)
+    f, vf = 10 ** rng.uniform(1, 5, n), rng.uniform(0, 1.0, n)
+    full = _chopper(v, e, r, l, d, f, vf)
+    assert full["continuous"].any() and not full["continuous"].all()  # both modes are drawn
+    np.testing.assert_array_equal(_chopper(v, e, r, l, d, f, vf, mean_only=True)["i_mean"], full["i_mean"])
