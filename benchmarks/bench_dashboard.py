@@ -5,7 +5,9 @@ callback runs, the session evaluates the design (``evaluate(design, spread=False
 panel that follows the session updates its readouts and assigns its plots' ``ColumnDataSource.data``.
 The run happens inside an asyncio event loop, as in an IPython kernel, so the debounced extras
 (schematic SVG, formula sheet) are only scheduled — they are timed separately, as is the Monte
-Carlo spread (on demand in the dashboard).
+Carlo spread (on demand in the dashboard). In a kernel, an edit that comes from the page draws
+the plots 0.1 s after the readout; here (no kernel message) they are drawn at once, so every
+timed change includes them.
 
 Change types: slider tick (wiper ±0.005, ra slider), topology switch, E-series snap. Target
 (issue 5): median ≤ 30 ms per change for the full-dashboard model recompute.

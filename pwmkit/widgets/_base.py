@@ -10,6 +10,7 @@ import functools
 import html
 import logging
 import math
+import sys
 from collections.abc import Callable
 from typing import Any
 
@@ -17,7 +18,7 @@ import ipywidgets as w
 
 from ..errors import DesignError
 
-__all__ = ["Panel", "Debouncer", "fmt", "fmt_pct", "num", "esc", "safe_callback", "GENERIC_MESSAGE", "log"]
+__all__ = ["Panel", "Debouncer", "Coalescer", "PLOT_DELAY", "fmt", "fmt_pct", "num", "esc", "safe_callback", "GENERIC_MESSAGE", "log"]
 
 log = logging.getLogger("pwmkit.widgets")
 
@@ -122,6 +123,67 @@ class Debouncer:
         self.pending = False
 
 
+class Coalescer:
+    """Run a function ``delay`` seconds after the first request of a burst; later requests join it.
+
+    Unlike :class:`Debouncer` the call is not pushed back by further requests, so a view redrawn
+    through it follows a dragged slider at most ``delay`` behind, drawing the latest state once per
+    window. Without a running event loop (plain Python, unit tests) the call runs immediately.
+    :meth:`flush` runs a pending call now.
+
+    Parameters
+    ----------
+    fn : callable
+        Called with no arguments; it must not raise (wrap it with :func:`safe_callback`).
+    delay : float
+        Time from the first request to the call [s]; 0 runs immediately.
+    """
+
+    def __init__(self, fn: Callable[[], None], delay: float) -> None:
+        self._fn = fn
+        self.delay = float(delay)
+        self._handle: asyncio.TimerHandle | None = None
+
+    @property
+    def pending(self) -> bool:
+        """True while a call is scheduled."""
+        return self._handle is not None
+
+    def __call__(self) -> None:
+        if self._handle is not None:
+            return  # joins the call already scheduled, which draws the latest state
+        loop = _running_loop()
+        if loop is None or self.delay <= 0:
+            self._fn()
+            return
+        self._handle = loop.call_later(self.delay, self.flush)
+
+    def flush(self) -> None:
+        """Run the pending call now (no-op when nothing is pending)."""
+        if self._handle is not None:
+            self._handle.cancel()
+            self._handle = None
+            self._fn()
+
+
+#: Delay of plot redraws after an edit made on the page [s]: the readout's message reaches the page
+#: first and is drawn before the browser spends its time on the plots; a dragged slider's plots are
+#: drawn once per window, with the latest design. Edits made by code in a cell draw at once.
+PLOT_DELAY = 0.1
+
+
+def _handling_page_message() -> bool:
+    """True while an IPython kernel handles a widget message from the page (not a cell's code)."""
+    kernelbase = sys.modules.get("ipykernel.kernelbase")  # never imported here: only a running kernel has it
+    if kernelbase is None or not kernelbase.Kernel.initialized():
+        return False
+    try:
+        parent = kernelbase.Kernel.instance().get_parent("shell")
+    except Exception:  # an ipykernel without get_parent: draw at once
+        return False
+    return isinstance(parent, dict) and parent.get("header", {}).get("msg_type") == "comm_msg"
+
+
 def _running_loop() -> asyncio.AbstractEventLoop | None:
     try:
         return asyncio.get_running_loop()
@@ -160,6 +222,9 @@ class Panel(w.VBox):
 
     title: str = ""
     css_name: str = "panel"
+    #: Redraw this long after an edit in a running kernel [s] (0: at once); plot panels use
+    #: :data:`PLOT_DELAY`.
+    redraw_delay: float = 0.0
     #: First words of an error message (input panels say that the edit was not applied).
     message_lead: str = "Problem"
 
@@ -172,17 +237,31 @@ class Panel(w.VBox):
         self.add_class(f"pwmkit-{self.css_name}")
         self.active = True
         self._stale = False
+        self._redraw = Coalescer(self._refresh_latest, self.redraw_delay) if self.redraw_delay > 0 else None
 
     # -- following the session (lazy while hidden) ----------------------------------------------
     def refresh(self, evaluation: Any) -> None:  # pragma: no cover - every panel overrides it
         """Show ``evaluation`` (the session's current one)."""
 
     def follow(self, evaluation: Any) -> None:
-        """Session listener: refresh now when active, else remember to refresh on activation."""
-        if self.active:
-            self.refresh(evaluation)
-        else:
+        """Session listener: refresh when active (at once, or after :attr:`redraw_delay` in a running
+        kernel, with the session's latest evaluation), else remember to refresh on activation."""
+        if not self.active:
             self._stale = True
+        elif self._redraw is not None and _handling_page_message():
+            self._redraw()
+        else:  # code in a cell (or plain Python) reads the plots right after its edit: draw now
+            self.refresh(evaluation)
+
+    def _refresh_latest(self) -> None:
+        session = getattr(self, "session", None)
+        if session is not None:
+            self.refresh(session.evaluation)
+
+    def flush_redraw(self) -> None:
+        """Run a delayed redraw now (no-op when none is pending)."""
+        if self._redraw is not None:
+            self._redraw.flush()
 
     def set_active(self, active: bool) -> None:
         """Mark the panel visible (refreshes it if the design changed while hidden) or hidden."""

@@ -343,12 +343,28 @@ class Dashboard(w.VBox):
         return self.session.evaluation
 
     def flush(self) -> None:
-        """Run debounced work (schematic, formulas, spread re-run) now."""
+        """Run delayed and debounced work (plot redraws, schematic, formulas, spread re-run) now."""
+        self.flush_redraws()
         panels = [page.panel for attr, page in self._lazy.items()
                   if attr in ("schematic", "formulas", "spread", "as_built") and page.built]
         for panel in [*panels, self.downloads]:
             if panel is not None:
                 panel.flush()
+
+    def flush_redraws(self) -> int:
+        """Draw the plots whose redraw after the last edit is still pending (see
+        :data:`pwmkit.widgets._base.PLOT_DELAY`) now; returns how many were pending."""
+        from ._base import Panel
+
+        count = 0
+        stack: list[Any] = [self]
+        while stack:
+            widget = stack.pop()
+            if isinstance(widget, Panel) and widget._redraw is not None and widget._redraw.pending:
+                widget.flush_redraw()
+                count += 1
+            stack.extend(getattr(widget, "children", ()) or ())
+        return count
 
     def resync(self) -> int:
         """Re-serialise every plot from its current state and redraw its views; returns the number of plots.

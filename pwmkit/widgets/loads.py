@@ -8,7 +8,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import DASH, Panel, esc, fmt, num, safe_callback
+from ._base import DASH, PLOT_DELAY, Panel, esc, fmt, num, safe_callback
 from .checks import CautionsBox
 from .session import DesignSession, as_session
 
@@ -167,6 +167,7 @@ class LoadsPanel(Panel):
 
     title = "Load and output stage"
     css_name = "loads"
+    redraw_delay = PLOT_DELAY
 
     def __init__(self, design: Design | DesignSession, *, show_cautions: bool = True) -> None:
         super().__init__()

@@ -13,7 +13,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import DASH, GENERIC_MESSAGE, Panel, esc, fmt, fmt_pct, log, num, safe_callback
+from ._base import DASH, GENERIC_MESSAGE, PLOT_DELAY, Panel, esc, fmt, fmt_pct, log, num, safe_callback
 from .entry import ValueEntry
 from .session import DesignSession, as_session
 
@@ -148,6 +148,7 @@ class ControlHeaterPanel(Panel):
 
     title = "Control range and heater"
     css_name = "control-heater"
+    redraw_delay = PLOT_DELAY
 
     def __init__(self, design: Design | DesignSession) -> None:
         super().__init__()

@@ -7,7 +7,7 @@ from typing import Any
 import ipywidgets as w
 
 from ..design import Design
-from ._base import Panel, esc, fmt, num, safe_callback
+from ._base import PLOT_DELAY, Panel, esc, fmt, num, safe_callback
 from .checks import CautionsBox
 from .session import DesignSession, as_session
 
@@ -39,6 +39,7 @@ class WaveformPanel(Panel):
 
     title = "Waveforms"
     css_name = "waveforms"
+    redraw_delay = PLOT_DELAY
 
     def __init__(self, design: Design | DesignSession, *, cycles: float = 3.0, show_cautions: bool = True) -> None:
         super().__init__()
@@ -70,6 +71,7 @@ class PotTravelPanel(Panel):
 
     title = "Pot travel"
     css_name = "pot-travel"
+    redraw_delay = PLOT_DELAY
 
     def __init__(self, design: Design | DesignSession) -> None:
         super().__init__()
@@ -132,6 +134,7 @@ class FlickerPanel(Panel):
 
     title = "Flicker map"
     css_name = "flicker"
+    redraw_delay = PLOT_DELAY
 
     def __init__(self, design: Design | DesignSession, *, show_cautions: bool = True) -> None:
         super().__init__()

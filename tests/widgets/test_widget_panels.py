@@ -20,8 +20,11 @@ from pwmkit.widgets import (
     LoadsPanel,
     SchematicPanel,
     SpreadPanel,
+    TimingPanel,
+    WaveformPanel,
+    dashboard,
 )
-from pwmkit.widgets._base import GENERIC_MESSAGE, Debouncer
+from pwmkit.widgets._base import GENERIC_MESSAGE, PLOT_DELAY, Coalescer, Debouncer
 
 
 def test_dashboard_is_a_widget_with_every_panel(shared_dash):
@@ -284,6 +287,97 @@ def test_debouncer_runs_at_once_without_a_loop_and_flushes_on_demand():
         return calls
 
     assert asyncio.run(scenario()) == [1, 2]
+
+
+def test_coalescer_runs_at_once_without_a_loop_and_joins_a_burst_in_one_call():
+    calls = []
+    Coalescer(lambda: calls.append(1), delay=10.0)()
+    assert calls == [1]
+
+    async def scenario() -> list[int]:
+        c = Coalescer(lambda: calls.append(2), delay=0.01)
+        c()
+        c()  # joins the scheduled call: not pushed back, not run twice
+        assert calls == [1] and c.pending
+        await asyncio.sleep(0.05)
+        assert not c.pending
+        c()
+        c.flush()  # on demand
+        c.flush()  # nothing pending: no-op
+        return calls
+
+    assert asyncio.run(scenario()) == [1, 2, 2]
+
+
+def test_plots_follow_a_page_edit_after_the_readout_and_a_cell_edit_at_once(grow, monkeypatch):
+    """In a kernel, an edit from the page redraws the waveform PLOT_DELAY later (the readout goes
+    first; a burst of slider steps draws once, the latest design); code in a cell sees the plot at once."""
+    import pwmkit.widgets._base as base
+
+    session = DesignSession(grow)
+    timing, waves = TimingPanel(session), WaveformPanel(session)
+    drawn = []
+    monkeypatch.setattr(waves.plot, "update", lambda timing, **_kw: drawn.append(float(timing.duty)))
+
+    async def page_edits(from_page: bool) -> list[float]:
+        monkeypatch.setattr(base, "_handling_page_message", lambda: from_page)
+        drawn.clear()
+        timing.wiper.value = 30.0
+        timing.wiper.value = 35.0
+        readout = timing.readout.value
+        early = list(drawn)
+        await asyncio.sleep(PLOT_DELAY + 0.1)
+        assert timing.readout.value == readout  # the readout was already current
+        return early
+
+    assert asyncio.run(page_edits(True)) == [] and drawn == [pytest.approx(float(session.evaluation.timing.duty))]
+    early = asyncio.run(page_edits(False))
+    assert len(early) == 2 and early == drawn
+
+
+def test_dashboard_flush_draws_pending_plot_redraws(grow, monkeypatch):
+    import pwmkit.widgets._base as base
+
+    async def scenario() -> tuple[int, int]:
+        dash = dashboard(grow, debounce=0.0)
+        await asyncio.sleep(0)
+        monkeypatch.setattr(base, "_handling_page_message", lambda: True)
+        before = list(dash.waveforms.plot.source.data["v_cap"])
+        dash.timing.wiper.value = 20.0
+        unchanged = list(dash.waveforms.plot.source.data["v_cap"]) == before
+        pending = dash.flush_redraws()
+        assert unchanged and list(dash.waveforms.plot.source.data["v_cap"]) != before
+        return pending, dash.flush_redraws()
+
+    pending, again = asyncio.run(scenario())
+    assert pending >= 1 and again == 0
+
+
+def test_page_message_probe_reads_the_kernels_current_shell_message(monkeypatch):
+    import types
+
+    from pwmkit.widgets._base import _handling_page_message
+
+    assert _handling_page_message() is False  # no kernel here
+    current = {"header": {"msg_type": "comm_msg"}}
+
+    class FakeKernel:  # the part of ipykernel.kernelbase.Kernel the probe uses
+        @classmethod
+        def initialized(cls) -> bool:
+            return True
+
+        @classmethod
+        def instance(cls) -> FakeKernel:
+            return cls()
+
+        def get_parent(self, channel: str) -> dict:
+            assert channel == "shell"
+            return current
+
+    monkeypatch.setitem(sys.modules, "ipykernel.kernelbase", types.SimpleNamespace(Kernel=FakeKernel))
+    assert _handling_page_message() is True  # a widget message from the page
+    current = {"header": {"msg_type": "execute_request"}}
+    assert _handling_page_message() is False  # a cell's code
 
 
 def test_a_failing_view_shows_a_generic_message_and_others_carry_on(grow, monkeypatch, caplog):
