@@ -123,7 +123,7 @@ class Debouncer:
         self.pending = False
 
 
-class Coalescer:
+class Coalescer(Debouncer):
     """Run a function ``delay`` seconds after the first request of a burst; later requests join it.
 
     Unlike :class:`Debouncer` the call is not pushed back by further requests, so a view redrawn
@@ -139,31 +139,10 @@ class Coalescer:
         Time from the first request to the call [s]; 0 runs immediately.
     """
 
-    def __init__(self, fn: Callable[[], None], delay: float) -> None:
-        self._fn = fn
-        self.delay = float(delay)
-        self._handle: asyncio.TimerHandle | None = None
-
-    @property
-    def pending(self) -> bool:
-        """True while a call is scheduled."""
-        return self._handle is not None
-
     def __call__(self) -> None:
         if self._handle is not None:
             return  # joins the call already scheduled, which draws the latest state
-        loop = _running_loop()
-        if loop is None or self.delay <= 0:
-            self._fn()
-            return
-        self._handle = loop.call_later(self.delay, self.flush)
-
-    def flush(self) -> None:
-        """Run the pending call now (no-op when nothing is pending)."""
-        if self._handle is not None:
-            self._handle.cancel()
-            self._handle = None
-            self._fn()
+        super().__call__()
 
 
 #: Delay of plot redraws after an edit made on the page [s]: the readout's message reaches the page
