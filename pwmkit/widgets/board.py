@@ -30,7 +30,7 @@ import ipywidgets as w
 
 from ..design import Design
 from ..two_timer_design import circuit_words as _circuit_words
-from ._base import esc, log
+from ._base import _running_loop, esc, log
 from .checks import CautionsBox, FindingsPanel
 from .formulas import FormulasPanel
 from .loads import LoadsPanel
@@ -356,15 +356,20 @@ class Dashboard(w.VBox):
         :data:`pwmkit.widgets._base.PLOT_DELAY`) now; returns how many were pending."""
         from ._base import Panel
 
-        count = 0
+        pending = [p for p in self._descendants() if isinstance(p, Panel) and p._redraw is not None and p._redraw.pending]
+        for panel in pending:
+            panel.flush_redraw()
+        return len(pending)
+
+    def _descendants(self) -> list[Any]:
+        """Every widget in the dashboard's tree of children (built pages only), this one included."""
+        found: list[Any] = []
         stack: list[Any] = [self]
         while stack:
             widget = stack.pop()
-            if isinstance(widget, Panel) and widget._redraw is not None and widget._redraw.pending:
-                widget.flush_redraw()
-                count += 1
+            found.append(widget)
             stack.extend(getattr(widget, "children", ()) or ())
-        return count
+        return found
 
     def resync(self) -> int:
         """Re-serialise every plot from its current state and redraw its views; returns the number of plots.
@@ -375,29 +380,15 @@ class Dashboard(w.VBox):
         """
         from jupyter_bokeh import BokehModel
 
-        count = 0
-        stack: list[Any] = [self]
-        while stack:
-            widget = stack.pop()
-            if isinstance(widget, BokehModel):
-                widget.update_from_model(widget._model)
-                count += 1
-            stack.extend(getattr(widget, "children", ()) or ())
-        return count
+        plots = [widget for widget in self._descendants() if isinstance(widget, BokehModel)]
+        for plot in plots:
+            plot.update_from_model(plot._model)
+        return len(plots)
 
     def show_tab(self, title: str) -> None:
         """Select a tab by its title ("Pot travel", "Spread", "Load & switch", "Flicker", "Checks",
         "Formulas", "Schematic")."""
         self.tabs.selected_index = list(self.tabs.titles).index(title)
-
-
-def _running_loop() -> Any:
-    import asyncio
-
-    try:
-        return asyncio.get_running_loop()
-    except RuntimeError:
-        return None
 
 
 def _no_schematic() -> Any:
